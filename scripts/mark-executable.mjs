@@ -1,0 +1,3 @@
+// The compiled CLI entry must be executable for the `bin` link that npm creates.
+import { chmodSync } from 'node:fs';
+chmodSync(new URL('../dist/cli/main.js', import.meta.url), 0o755);

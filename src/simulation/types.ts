@@ -1,0 +1,35 @@
+/** What a simulation returns: plain arrays at the sample times. */
+
+export interface SimulationStats {
+  rhsEvaluations: number;
+  steps: number;
+  rejectedSteps: number;
+  /** Integration restarts (window start, each jump of a `hold` input). */
+  segments: number;
+}
+
+export interface SimulationResult {
+  experiment: string;
+  /** Sample times in the model's time unit. */
+  time: Float64Array;
+  /** Per state, values at the sample times. */
+  states: Float64Array[];
+  /** Per output, values at the sample times. */
+  outputs: Float64Array[];
+  /**
+   * When sensitivities were requested: for the parameter slots `slots` (q of them),
+   * `outputs[j][i*q+k]` = d output_j(t_i) / d p_slots[k].
+   */
+  sensitivities?: { slots: readonly number[]; outputs: Float64Array[] };
+  stats: SimulationStats;
+}
+
+export interface SimulationOptions {
+  /** Relative tolerance (default 1e-8) and absolute tolerance per state (default scaled per state). */
+  rtol?: number;
+  atol?: number | Float64Array;
+  /** Parameter slots to compute sensitivities for. */
+  sensitivitySlots?: readonly number[];
+  /** Step limit per segment before the model is declared stiff / failing. */
+  maxSteps?: number;
+}
