@@ -89,6 +89,9 @@ export interface FitResult {
   version: string;
   format: 1;
   model: { name: string; file: string; sha256: string; description?: string };
+  /** The model's time unit (times in residuals.csv are in it). */
+  timeUnit?: string;
+  experiments?: { name: string; role: 'fit' | 'validation'; file: string; sha256: string; rows: number }[];
   status: 'converged' | 'stopped' | 'failed';
   message: string;
   iterations: number;
