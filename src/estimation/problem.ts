@@ -1,0 +1,278 @@
+/**
+ * The estimation problem: the vector theta the optimiser moves, how it maps onto the compiled
+ * model's parameter slots in each fit experiment, and the weighted residuals and their Jacobian.
+ *
+ * theta has one entry per free parameter, and one per fit experiment for a per-experiment parameter
+ * (`name@experiment`). Entries with `scale: log` hold ln(value) (bounds ln(min), ln(max)), so the
+ * optimiser keeps them positive and moves them by ratios.
+ *
+ * Residual of output j at a non-missing sample: (measured - simulated) / sigma_j, over all fit
+ * experiments, outputs logged there and samples, in that order. The Jacobian comes from the
+ * simulator's output sensitivities (forward sensitivity equations), never from finite differences:
+ * d r / d theta_k = -(d y / d value_k) * (d value_k / d theta_k) / sigma_j, where d value/d theta is 1
+ * in linear coordinates and `value` in log coordinates. A per-experiment copy only has a nonzero
+ * column in the rows of its own experiment.
+ */
+import { RunFailure } from '../errors.js';
+import type { CompiledModel } from '../model/compiled-types.js';
+import type { ExperimentData } from '../data/types.js';
+import type { FreeParameterSpec } from '../model/types.js';
+import type { SimulationOptions, SimulationResult } from '../simulation/types.js';
+
+/** The simulator's entry points, passed in so that the problem is a pure function of its parts. */
+export interface SimulatorFns {
+  simulateExperiment(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationResult;
+  /** Declared values, then the experiment's `set`, then `values` and `model.overrides`. */
+  parameterVector(compiled: CompiledModel, experimentIndex: number, values?: Record<string, number>): Float64Array;
+}
+
+export interface ThetaEntry {
+  /** `name`, or `name@experiment` for a per-experiment copy. */
+  name: string;
+  parameter: string;
+  slot: number;
+  /** For a per-experiment copy: the experiment's name and its index in `fitData`. */
+  experiment?: string;
+  fitIndex?: number;
+  scale: 'log' | 'linear';
+  /** Bounds and start in the parameter's own unit. */
+  min: number;
+  max: number;
+  start: number;
+  /** Bounds in the optimiser's coordinate. */
+  lower: number;
+  upper: number;
+}
+
+/** Where each residual comes from (for rebuilding series and per-output sums). */
+export interface ResidualBlock {
+  fitIndex: number;
+  output: number;
+  /** Sample indices (into the experiment's time array) with a measured value. */
+  samples: Int32Array;
+  /** Offset of this block's first residual. */
+  offset: number;
+}
+
+export interface ResidualsAndJacobian {
+  residuals: Float64Array;
+  /** Row-major, nResiduals x nTheta. */
+  jacobian: Float64Array;
+}
+
+export interface EstimationProblem {
+  compiled: CompiledModel;
+  fitData: readonly ExperimentData[];
+  entries: readonly ThetaEntry[];
+  blocks: readonly ResidualBlock[];
+  nResiduals: number;
+  /** Current weighting, one sigma per output (in the output's unit); change with `setSigmas`. */
+  sigmas: readonly number[];
+  setSigmas(sigmas: readonly number[]): void;
+  startTheta(): number[];
+  /** Parameter values (own unit) from theta. */
+  valuesOf(theta: readonly number[]): number[];
+  thetaOf(values: readonly number[]): number[];
+  /** The compiled model's parameter vector for fit experiment `fitIndex` at theta. */
+  paramsFor(theta: readonly number[], fitIndex: number): Float64Array;
+  /** Weighted residuals, or null when a simulation failed (the optimiser rejects the step). */
+  residuals(theta: readonly number[]): Float64Array | null;
+  residualsAndJacobian(theta: readonly number[]): ResidualsAndJacobian | null;
+  /** Simulated outputs per fit experiment at theta (throws RunFailure when it cannot simulate). */
+  simulateAll(theta: readonly number[]): SimulationResult[];
+  counters: { simulations: number; sensitivitySimulations: number };
+  /** The last simulation failure seen (for messages when every trial fails). */
+  lastFailure?: RunFailure;
+}
+
+function toTheta(e: { scale: 'log' | 'linear' }, v: number): number {
+  return e.scale === 'log' ? Math.log(v) : v;
+}
+function fromTheta(e: { scale: 'log' | 'linear' }, th: number): number {
+  return e.scale === 'log' ? Math.exp(th) : th;
+}
+
+/**
+ * Build the problem for the model's `fit` experiments. `fitData` are those experiments' data in
+ * model order; `sigmas` the initial weighting per output.
+ */
+export function buildProblem(compiled: CompiledModel, fitData: readonly ExperimentData[], sigmas: readonly number[], sim: SimulatorFns): EstimationProblem {
+  const model = compiled.model;
+  const free = model.parameters.filter((p): p is FreeParameterSpec => p.kind === 'free');
+  const entries: ThetaEntry[] = [];
+  for (const p of free) {
+    const slot = compiled.paramSlot.get(p.name);
+    if (slot === undefined) throw new Error(`compiled model has no slot for parameter ${p.name}`);
+    const base = { parameter: p.name, slot, scale: p.scale, min: p.min, max: p.max };
+    const bounds = p.scale === 'log' ? { lower: Math.log(p.min), upper: Math.log(p.max) } : { lower: p.min, upper: p.max };
+    if (p.perExperiment) {
+      fitData.forEach((d, fitIndex) => {
+        const name = `${p.name}@${d.experiment.name}`;
+        // A start given with --set name@experiment=value applies to that copy only.
+        const start = model.overrides[name] ?? p.start;
+        entries.push({ ...base, ...bounds, name, experiment: d.experiment.name, fitIndex, start });
+      });
+    } else {
+      entries.push({ ...base, ...bounds, name: p.name, start: p.start });
+    }
+  }
+  const nTheta = entries.length;
+  // The sensitivity slots (same in every experiment: the free parameters' slots) and, per fit
+  // experiment, the theta column of each slot.
+  const slots = free.map((p) => compiled.paramSlot.get(p.name)!);
+  const columnOf: number[][] = fitData.map((_, fitIndex) =>
+    free.map((p) => entries.findIndex((e) => e.parameter === p.name && (e.fitIndex === undefined || e.fitIndex === fitIndex))),
+  );
+  const baseParams = fitData.map((d) => sim.parameterVector(compiled, d.index));
+
+  const blocks: ResidualBlock[] = [];
+  let n = 0;
+  fitData.forEach((d, fitIndex) => {
+    d.outputs.forEach((meas, output) => {
+      if (!meas) return;
+      const idx: number[] = [];
+      for (let i = 0; i < meas.length; i++) if (!Number.isNaN(meas[i])) idx.push(i);
+      if (idx.length === 0) return;
+      blocks.push({ fitIndex, output, samples: Int32Array.from(idx), offset: n });
+      n += idx.length;
+    });
+  });
+  const nResiduals = n;
+  let weights = sigmas.slice();
+
+  const counters = { simulations: 0, sensitivitySimulations: 0 };
+
+  const problem: EstimationProblem = {
+    compiled,
+    fitData,
+    entries,
+    blocks,
+    nResiduals,
+    get sigmas() {
+      return weights;
+    },
+    setSigmas(s) {
+      if (s.length !== compiled.nOutputs || s.some((x) => !(x > 0) || !Number.isFinite(x))) throw new Error('sigmas must be positive and finite, one per output');
+      weights = s.slice();
+    },
+    startTheta: () => entries.map((e) => toTheta(e, e.start)),
+    valuesOf: (theta) => entries.map((e, k) => fromTheta(e, theta[k])),
+    thetaOf: (values) => entries.map((e, k) => toTheta(e, values[k])),
+    paramsFor(theta, fitIndex) {
+      const p = Float64Array.from(baseParams[fitIndex]);
+      entries.forEach((e, k) => {
+        if (e.fitIndex === undefined || e.fitIndex === fitIndex) p[e.slot] = fromTheta(e, theta[k]);
+      });
+      return p;
+    },
+    simulateAll(theta) {
+      return fitData.map((d, fitIndex) => {
+        counters.simulations++;
+        return sim.simulateExperiment(compiled, d, problem.paramsFor(theta, fitIndex));
+      });
+    },
+    residuals(theta) {
+      const r = new Float64Array(nResiduals);
+      for (let fitIndex = 0; fitIndex < fitData.length; fitIndex++) {
+        let res: SimulationResult;
+        try {
+          counters.simulations++;
+          res = sim.simulateExperiment(compiled, fitData[fitIndex], problem.paramsFor(theta, fitIndex));
+        } catch (err) {
+          if (err instanceof RunFailure) {
+            problem.lastFailure = err;
+            return null;
+          }
+          throw err;
+        }
+        if (!fillResiduals(fitIndex, res, r)) return null;
+      }
+      return r;
+    },
+    residualsAndJacobian(theta) {
+      const r = new Float64Array(nResiduals);
+      const J = new Float64Array(nResiduals * nTheta);
+      for (let fitIndex = 0; fitIndex < fitData.length; fitIndex++) {
+        let res: SimulationResult;
+        const p = problem.paramsFor(theta, fitIndex);
+        try {
+          counters.sensitivitySimulations++;
+          res = sim.simulateExperiment(compiled, fitData[fitIndex], p, { sensitivitySlots: slots });
+        } catch (err) {
+          if (err instanceof RunFailure) {
+            problem.lastFailure = err;
+            return null;
+          }
+          throw err;
+        }
+        if (!fillResiduals(fitIndex, res, r)) return null;
+        const sens = res.sensitivities;
+        if (!sens) throw new Error('the simulator returned no sensitivities');
+        const q = slots.length;
+        // d value / d theta per sensitivity column (1, or the value itself in log coordinates).
+        const cols = columnOf[fitIndex];
+        const chain = cols.map((c) => (c < 0 ? 0 : entries[c].scale === 'log' ? p[entries[c].slot] : 1));
+        for (const b of blocks) {
+          if (b.fitIndex !== fitIndex) continue;
+          const dy = sens.outputs[b.output];
+          const w = 1 / weights[b.output];
+          for (let s = 0; s < b.samples.length; s++) {
+            const i = b.samples[s];
+            const row = (b.offset + s) * nTheta;
+            for (let k = 0; k < q; k++) {
+              const c = cols[k];
+              if (c < 0) continue;
+              const v = -dy[i * q + k] * chain[k] * w;
+              if (!Number.isFinite(v)) {
+                problem.lastFailure = new RunFailure(`the output sensitivities are not finite in experiment ${fitData[fitIndex].experiment.name}`);
+                return null;
+              }
+              J[row + c] = v;
+            }
+          }
+        }
+      }
+      return { residuals: r, jacobian: J };
+    },
+    counters,
+  };
+
+  function fillResiduals(fitIndex: number, res: SimulationResult, r: Float64Array): boolean {
+    const d = fitData[fitIndex];
+    for (const b of blocks) {
+      if (b.fitIndex !== fitIndex) continue;
+      const meas = d.outputs[b.output]!;
+      const y = res.outputs[b.output];
+      const w = 1 / weights[b.output];
+      for (let s = 0; s < b.samples.length; s++) {
+        const i = b.samples[s];
+        const v = (meas[i] - y[i]) * w;
+        if (!Number.isFinite(v)) {
+          problem.lastFailure = new RunFailure(
+            `the simulated output ${compiled.model.outputs[b.output].name} is not finite at time ${d.time[i]} in experiment ${d.experiment.name}`,
+          );
+          return false;
+        }
+        r[b.offset + s] = v;
+      }
+    }
+    return true;
+  }
+
+  return problem;
+}
+
+/** Sum of squared (weighted) residuals per output over the fit experiments, and sample counts. */
+export function perOutputSums(problem: EstimationProblem, residuals: Float64Array): { sse: number[]; samples: number[] } {
+  const nOut = problem.compiled.nOutputs;
+  const sse = new Array<number>(nOut).fill(0);
+  const samples = new Array<number>(nOut).fill(0);
+  for (const b of problem.blocks) {
+    for (let s = 0; s < b.samples.length; s++) {
+      const v = residuals[b.offset + s];
+      sse[b.output] += v * v;
+    }
+    samples[b.output] += b.samples.length;
+  }
+  return { sse, samples };
+}

@@ -1,0 +1,131 @@
+/**
+ * Reads estimates.yaml (written by `fit`) for `simulate --params`, `validate` and `freeze`.
+ * The file is input from the user's disk: it is checked key by key and every problem names the file,
+ * the line and the key.
+ */
+import { readFileSync, statSync } from 'node:fs';
+import { LineCounter, isMap, isPair, isScalar, parseDocument, type Node } from 'yaml';
+import { ProblemList, UserError, type SourceLocation } from '../errors.js';
+
+/** Larger than any real estimates file by far; refuses a wrong file before parsing it. */
+const MAX_BYTES = 4 * 1024 * 1024;
+
+export interface EstimateEntry {
+  value: number;
+  unit: string;
+  status: 'estimated' | 'fixed';
+  experiment?: string;
+  stdError?: number | null;
+  ci95?: [number, number] | null;
+  atBound?: false | 'lower' | 'upper';
+  scale?: 'log' | 'linear';
+}
+
+export interface EstimatesFile {
+  file: string;
+  version: string;
+  model: { name: string; file: string; sha256: string };
+  fit: { status: string; message: string; date: string; weightedSSE?: number; observations?: number };
+  data: { experiment: string; role: string; file: string; sha256: string }[];
+  /** Every parameter value by name (`name` or `name@experiment`), in the parameter's unit. */
+  values: Record<string, number>;
+  parameters: Record<string, EstimateEntry>;
+  noise: Record<string, { sigma: number; unit: string; estimated: boolean }>;
+}
+
+function isNumber(v: unknown): v is number {
+  return typeof v === 'number' && !Number.isNaN(v);
+}
+
+export function readEstimates(file: string): EstimatesFile {
+  let text: string;
+  try {
+    const size = statSync(file).size;
+    if (size > MAX_BYTES) {
+      throw new UserError({ where: { file }, what: `the estimates file is ${size} bytes, more than an estimates file can be (${MAX_BYTES} bytes)`, fix: 'pass the estimates.yaml written by `rigcal fit`' });
+    }
+    text = readFileSync(file, 'utf8');
+  } catch (err) {
+    if (err instanceof UserError) throw err;
+    throw new UserError({ where: { file }, what: `cannot read the estimates file (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`, fix: 'give the path of an estimates.yaml written by `rigcal fit`' });
+  }
+  const lineCounter = new LineCounter();
+  const doc = parseDocument(text, { lineCounter, maxAliasCount: 10, prettyErrors: false, uniqueKeys: true });
+  const problems = new ProblemList();
+  const at = (node: Node | null | undefined, key: string): SourceLocation => {
+    const where: SourceLocation = { file, key };
+    if (node?.range) {
+      const pos = lineCounter.linePos(node.range[0]);
+      where.line = pos.line;
+      where.column = pos.col;
+    }
+    return where;
+  };
+  if (doc.errors.length) {
+    for (const e of doc.errors) {
+      const pos = e.linePos?.[0];
+      problems.add({ file, line: pos?.line, column: pos?.col }, `not valid YAML: ${e.message.split('\n')[0]}`, 'pass the estimates.yaml written by `rigcal fit`, unedited');
+    }
+    problems.throwIfAny();
+  }
+  const root = doc.contents;
+  const plain = doc.toJS({ maxAliasCount: 10 }) as Record<string, any> | null;
+  if (!isMap(root) || plain === null || typeof plain !== 'object' || plain.tool !== 'rigcal') {
+    throw new UserError({ where: { file, key: 'tool' }, what: 'this is not an estimates file of rigcal (no `tool: rigcal` at the top)', fix: 'pass the estimates.yaml written by `rigcal fit`' });
+  }
+  const paramsNode = root.get('parameters', true) as Node | undefined;
+  if (!isMap(paramsNode)) {
+    throw new UserError({ where: at(paramsNode, 'parameters'), what: 'the estimates file has no `parameters` map', fix: 'pass the estimates.yaml written by `rigcal fit`' });
+  }
+  const values: Record<string, number> = {};
+  const parameters: Record<string, EstimateEntry> = {};
+  for (const item of paramsNode.items) {
+    if (!isPair(item)) continue;
+    const keyNode = item.key as Node;
+    const name = isScalar(keyNode) ? String(keyNode.value) : '';
+    const key = `parameters.${name}`;
+    const entry = (plain.parameters as Record<string, any>)[name];
+    if (!/^[A-Za-z][A-Za-z0-9_]*(@[^\s@]+)?$/.test(name)) {
+      problems.add(at(keyNode, key), `\`${name}\` is not a parameter name (letters, digits, _; per-experiment copies as name@experiment)`);
+      continue;
+    }
+    if (entry === null || typeof entry !== 'object' || Array.isArray(entry)) {
+      problems.add(at(item.value as Node, key), `parameter ${name} must be a map with at least \`value\``, 'e.g. `K: { value: 0.0521, unit: N*m/A, status: estimated }`');
+      continue;
+    }
+    if (!isNumber(entry.value) || !Number.isFinite(entry.value)) {
+      problems.add(at(item.value as Node, `${key}.value`), `parameter ${name} has no finite numeric \`value\` (found ${JSON.stringify(entry.value) ?? 'nothing'})`, 'write the value as a plain number');
+      continue;
+    }
+    const status = entry.status === 'fixed' ? 'fixed' : 'estimated';
+    if (entry.status !== undefined && entry.status !== 'fixed' && entry.status !== 'estimated') {
+      problems.add(at(item.value as Node, `${key}.status`), `parameter ${name} has status ${JSON.stringify(entry.status)}`, 'use `estimated` or `fixed`');
+    }
+    values[name] = entry.value;
+    const e: EstimateEntry = { value: entry.value, unit: typeof entry.unit === 'string' ? entry.unit : '', status };
+    if (typeof entry.experiment === 'string') e.experiment = entry.experiment;
+    if (isNumber(entry.stdError) || entry.stdError === null) e.stdError = entry.stdError;
+    if (entry.ci95 === null || (Array.isArray(entry.ci95) && entry.ci95.length === 2 && entry.ci95.every(isNumber))) e.ci95 = entry.ci95;
+    if (entry.atBound === false || entry.atBound === 'lower' || entry.atBound === 'upper') e.atBound = entry.atBound;
+    if (entry.scale === 'log' || entry.scale === 'linear') e.scale = entry.scale;
+    parameters[name] = e;
+  }
+  problems.throwIfAny();
+  const str = (v: unknown): string => (typeof v === 'string' ? v : v === undefined || v === null ? '' : String(v));
+  const model = plain.model ?? {};
+  const fit = plain.fit ?? {};
+  const noise: EstimatesFile['noise'] = {};
+  for (const [k, v] of Object.entries((plain.noise ?? {}) as Record<string, any>)) {
+    if (v && isNumber(v.sigma)) noise[k] = { sigma: v.sigma, unit: str(v.unit), estimated: v.estimated === true };
+  }
+  return {
+    file,
+    version: str(plain.version),
+    model: { name: str(model.name), file: str(model.file), sha256: str(model.sha256) },
+    fit: { status: str(fit.status), message: str(fit.message), date: str(fit.date), weightedSSE: isNumber(fit.weightedSSE) ? fit.weightedSSE : undefined, observations: isNumber(fit.observations) ? fit.observations : undefined },
+    data: Array.isArray(plain.data) ? plain.data.filter((d: any) => d && typeof d === 'object').map((d: any) => ({ experiment: str(d.experiment), role: str(d.role), file: str(d.file), sha256: str(d.sha256) })) : [],
+    values,
+    parameters,
+    noise,
+  };
+}
