@@ -50,7 +50,7 @@ export function readEstimates(file: string): EstimatesFile {
     throw new UserError({ where: { file }, what: `cannot read the estimates file (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`, fix: 'give the path of an estimates.yaml written by `rigcal fit`' });
   }
   const lineCounter = new LineCounter();
-  const doc = parseDocument(text, { lineCounter, maxAliasCount: 10, prettyErrors: false, uniqueKeys: true });
+  const doc = parseDocument(text, { lineCounter, prettyErrors: false, uniqueKeys: true });
   const problems = new ProblemList();
   const at = (node: Node | null | undefined, key: string): SourceLocation => {
     const where: SourceLocation = { file, key };
