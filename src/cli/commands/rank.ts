@@ -1,15 +1,65 @@
-/** The `rank` command (not built yet: this placeholder only registers the name). */
+/** The `rank` command: fit candidate models of one rig on the same data and rank them. */
 import type { Command } from 'commander';
-import { RunFailure } from '../../errors.js';
+import { UserError } from '../../errors.js';
+import { rankModels } from '../../comparison/rank-models.js';
+import { rankJson, rankText } from '../../comparison/rank-report.js';
 import type { CommandContext } from '../io.js';
+
+interface RankCliOptions {
+  nested?: boolean;
+  json?: boolean;
+  starts?: string;
+  seed?: string;
+  maxIterations?: string;
+  quiet?: boolean;
+}
 
 export function register(program: Command, ctx: CommandContext): void {
   program
     .command('rank')
-    .description('(not available yet)')
-    .allowUnknownOption()
-    .argument('[args...]')
-    .action(ctx.action(() => {
-      throw new RunFailure('the rank command is not available in this build');
-    }));
+    .description('fit candidate models of the same rig on the same experiments and rank them by AICc')
+    .argument('<models...>', 'two or more model files that use the same data files and outputs')
+    .option('--nested', 'also run likelihood-ratio tests between candidates ordered by free parameters (each smaller one must be a special case of the next)')
+    .option('--json', 'print the ranking as JSON instead of the table')
+    .option('--starts <n>', 'starts per fit spread over the bounds (seeded)')
+    .option('--seed <s>', 'seed of the starts')
+    .option('--max-iterations <n>', 'iteration limit per fit')
+    .option('--quiet', 'no progress on standard error')
+    .addHelpText(
+      'after',
+      `
+Example:
+  rigcal rank models/flywheel.yaml models/flywheel-no-coulomb.yaml --nested
+
+The objective is -2 log L of Gaussian noise with each model's maximum-likelihood noise level per output
+(where the noise is estimated), so that models with different residual levels are compared fairly;
+AICc and BIC count the free parameters plus the estimated noise levels.`,
+    )
+    .action(
+      ctx.action((files: string[], opts: RankCliOptions) => {
+        const starts = optionalInteger(opts.starts, '--starts', 1);
+        const seed = optionalInteger(opts.seed, '--seed', 0);
+        const maxIterations = optionalInteger(opts.maxIterations, '--max-iterations', 1);
+        const showProgress = ctx.io.stderrIsTTY && !opts.quiet;
+        const outcome = rankModels(files, {
+          nested: opts.nested,
+          starts,
+          seed,
+          maxIterations,
+          cwd: ctx.io.cwd,
+          onModel: showProgress ? (name, i, n) => ctx.io.stderr(`fitting ${name} (${i + 1} of ${n})\n`) : undefined,
+        });
+        ctx.io.stdout(opts.json ? `${JSON.stringify(rankJson(outcome), null, 2)}\n` : rankText(outcome));
+        return outcome.failures.length ? 1 : 0;
+      }),
+    );
+}
+
+function optionalInteger(text: string | undefined, option: string, min: number): number | undefined {
+  if (text === undefined) return undefined;
+  const v = Number(text);
+  if (!Number.isInteger(v) || v < min) {
+    throw new UserError({ where: { key: option }, what: `${option} must be an integer of at least ${min}, not "${text}"`, fix: `e.g. ${option} ${Math.max(min, 5)}` });
+  }
+  return v;
 }

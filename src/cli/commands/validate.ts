@@ -1,15 +1,58 @@
-/** The `validate` command (not built yet: this placeholder only registers the name). */
+/** The `validate` command: score a calibrated model on data it was not fitted to. */
 import type { Command } from 'commander';
-import { RunFailure } from '../../errors.js';
+import path from 'node:path';
+import { parseOverrides } from '../../model/load/index.js';
+import { defaultValidationFolder, validationText, writeValidationFolder } from '../../validation/validation-report.js';
+import { validateModel } from '../../validation/validate-model.js';
 import type { CommandContext } from '../io.js';
+
+interface ValidateCliOptions {
+  params: string;
+  experiment?: string[];
+  data?: string;
+  output?: string;
+  set?: string[];
+  force?: boolean;
+  json?: boolean;
+}
+
+const collect = (value: string, previous: string[] = []) => [...previous, value];
 
 export function register(program: Command, ctx: CommandContext): void {
   program
     .command('validate')
-    .description('(not available yet)')
-    .allowUnknownOption()
-    .argument('[args...]')
-    .action(ctx.action(() => {
-      throw new RunFailure('the validate command is not available in this build');
-    }));
+    .description('score a calibrated model (model file + estimates.yaml) on data it was not fitted to: RMSE, NRMSE, R^2 and residual whiteness per output')
+    .argument('<model>', 'the model file (YAML)')
+    .requiredOption('--params <file>', 'estimates.yaml written by `rigcal fit`')
+    .option('-e, --experiment <name>', 'an experiment of the model file, of any role (repeatable); default: every validation experiment', collect)
+    .option('--data <file>', 'a new log (CSV) read with the model\'s columns; time column and unit as in the model\'s first experiment')
+    .option('-o, --output <dir>', 'folder for validation.json and residuals.csv (default ./<model name>-validate/)')
+    .option('--set <name=value>', 'a parameter value for this run (wins over the estimates), e.g. a per-experiment initial value of a new log', collect)
+    .option('--force', 'validate even though the estimates were made for another version of the model file')
+    .option('--json', 'print validation.json to standard output instead of the table')
+    .addHelpText(
+      'after',
+      `
+Example:
+  rigcal validate models/flywheel.yaml --params flywheel-rig-fit/estimates.yaml -e prbs-check
+  rigcal validate models/flywheel.yaml --params flywheel-rig-fit/estimates.yaml --data logs/friday.csv`,
+    )
+    .action(
+      ctx.action((modelFile: string, opts: ValidateCliOptions) => {
+        const outcome = validateModel({
+          modelFile,
+          estimatesFile: opts.params,
+          experiments: opts.experiment,
+          dataFile: opts.data,
+          overrides: opts.set?.length ? parseOverrides(opts.set) : undefined,
+          force: opts.force,
+          cwd: ctx.io.cwd,
+        });
+        const folder = opts.output ? path.resolve(ctx.io.cwd, opts.output) : defaultValidationFolder(ctx.io.cwd, outcome.result.model.name);
+        const written = writeValidationFolder(folder, outcome.result, outcome.series, outcome.result.outputs.map((o) => o.output).filter((o, i, a) => a.indexOf(o) === i));
+        if (opts.json) ctx.io.stdout(`${JSON.stringify(outcome.result, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
+        else ctx.io.stdout(`${validationText(outcome.result)}results: ${path.relative(ctx.io.cwd, written) || '.'}\n`);
+        return 0;
+      }),
+    );
 }

@@ -1,0 +1,47 @@
+/**
+ * The result of `validate`: a plain object, written as validation.json into the output folder and
+ * rendered as a table by the CLI.
+ */
+import type { WhitenessResult } from '../estimation/fit-result.js';
+
+export interface ValidationOutputScore {
+  experiment: string;
+  output: string;
+  unit: string;
+  /** Samples with both a measurement and a simulated value; missing measurements are skipped. */
+  samples: number;
+  missing: number;
+  /** Root-mean-square error, in `unit`. */
+  rmse: number;
+  /** RMSE over the standard deviation of the measurement (dimensionless; 0 is perfect, 1 is no better than the mean). */
+  nrmse: number;
+  r2: number;
+  whiteness?: WhitenessResult;
+  /** In words: are the residuals plain noise, or does the model miss something? */
+  verdict: string;
+  correlatedUpTo?: number;
+}
+
+export interface ValidationData {
+  experiment: string;
+  /** `fit` or `validation` for an experiment of the model file; `new log` for --data. */
+  source: 'fit' | 'validation' | 'new log';
+  file: string;
+  sha256: string;
+  rows: number;
+}
+
+export interface ValidationResult {
+  tool: 'rigcal';
+  version: string;
+  kind: 'validation';
+  date: string;
+  model: { name: string; file: string; sha256: string };
+  estimates: { file: string; modelSha256: string; fitDate: string; fitStatus: string };
+  timeUnit: string;
+  data: ValidationData[];
+  outputs: ValidationOutputScore[];
+  /** Values used for the parameters, by name (`name@experiment` for per-experiment copies). */
+  parameters: Record<string, number>;
+  warnings: string[];
+}
