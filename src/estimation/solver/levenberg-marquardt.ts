@@ -1,0 +1,325 @@
+/**
+ * Bounded trust-region Levenberg-Marquardt in the style of Moré (1978), the method of MINPACK's
+ * lmder, with bounds kept by projection.
+ *
+ * Each iteration: the Jacobian's columns set the scaling D (running maximum of the column norms, so
+ * the trust region never widens in a direction only because its column shrank); the damped step
+ * comes from `dampedStep` (QR, trust radius Delta); the trial point is projected onto the bounds;
+ * the ratio of actual to predicted cost reduction decides whether the step is taken (only when the
+ * cost falls) and how Delta and the damping change. A trial whose residuals cannot be computed (a
+ * diverging simulation) is a rejected step that shrinks Delta.
+ *
+ * cost = sum of squared residuals (SSE) throughout.
+ */
+import { Matrix, QrDecomposition } from 'ml-matrix';
+import { RunFailure } from '../../errors.js';
+import { boundStatus, movableEntries, project } from './bounds.js';
+import { dampedStep } from './damped-step.js';
+import { SOLVER_DEFAULTS } from './defaults.js';
+import { allFinite, columnNorms, matrixAllFinite, multiplyColumns, norm2, scaledNorm, toJacobianMatrix, transposeTimes } from './dense.js';
+import type { LeastSquaresProblem, SolverOptions, SolverResult, StopReason } from './types.js';
+
+const EPS = 2.220446049250313e-16;
+/** A step is taken when it achieves at least this share of the predicted reduction (MINPACK's 1e-4). */
+const ACCEPT_RATIO = 1e-4;
+
+type Evaluation = { ok: true; residuals: Float64Array; jacobian?: Matrix } | { ok: false; why: string };
+
+function describeFailure(err: unknown): string {
+  return err instanceof Error ? err.message : String(err);
+}
+
+/** Reduce J's columns `cols` to R (square, upper triangular) and Q^T r, via ml-matrix's Householder QR. */
+function reduce(j: Matrix, cols: readonly number[], r: Float64Array): { R: Matrix; qtr: Float64Array } {
+  const p = cols.length;
+  const rows = Math.max(j.rows, p); // zero rows change nothing and keep the factorisation square-or-tall
+  const a = new Matrix(rows, p);
+  for (let i = 0; i < j.rows; i++) for (let k = 0; k < p; k++) a.set(i, k, j.get(i, cols[k] as number));
+  const qr = new QrDecomposition(a);
+  const q = qr.orthogonalMatrix;
+  const qtr = new Float64Array(p);
+  for (let k = 0; k < p; k++) {
+    let s = 0;
+    for (let i = 0; i < j.rows; i++) s += q.get(i, k) * (r[i] as number);
+    qtr[k] = s;
+  }
+  return { R: qr.upperTriangularMatrix, qtr };
+}
+
+function fmt(x: number): string {
+  return x.toExponential(0).replace('e+', 'e');
+}
+
+/**
+ * Minimise the sum of squared residuals of `problem` from `start` within its bounds.
+ * Never throws for a failed evaluation (that is a rejected step, or status 'failed' at the start);
+ * errors other than RunFailure thrown by the callbacks are bugs and propagate.
+ */
+export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike<number>, options: SolverOptions = {}): SolverResult {
+  const maxIterations = options.maxIterations ?? SOLVER_DEFAULTS.maxIterations;
+  const ftol = options.costTolerance ?? SOLVER_DEFAULTS.costTolerance;
+  const xtol = options.stepTolerance ?? SOLVER_DEFAULTS.stepTolerance;
+  const gtol = options.gradientTolerance ?? SOLVER_DEFAULTS.gradientTolerance;
+  const factor = options.initialRadiusFactor ?? SOLVER_DEFAULTS.initialRadiusFactor;
+
+  const p = start.length;
+  const lower = Float64Array.from({ length: p }, (_, i) => (problem.lower ? (problem.lower[i] as number) : -Infinity));
+  const upper = Float64Array.from({ length: p }, (_, i) => (problem.upper ? (problem.upper[i] as number) : Infinity));
+  for (let i = 0; i < p; i++) {
+    if (!(lower[i]! <= upper[i]!)) throw new Error(`solver: bounds of entry ${i} are empty or not numbers (${lower[i]}, ${upper[i]})`);
+    if (!Number.isFinite(start[i] as number)) throw new Error(`solver: start value of entry ${i} is not finite`);
+  }
+
+  let residualEvaluations = 0;
+  let jacobianEvaluations = 0;
+  let failedEvaluations = 0;
+  let nResiduals = -1;
+
+  const checkResiduals = (raw: ArrayLike<number>): Evaluation => {
+    if (nResiduals >= 0 && raw.length !== nResiduals) {
+      throw new Error(`solver: the problem returned ${raw.length} residuals, earlier ${nResiduals}`);
+    }
+    const residuals = Float64Array.from(raw);
+    if (!allFinite(residuals)) return { ok: false, why: 'some residuals are not finite numbers' };
+    return { ok: true, residuals };
+  };
+  const evaluate = (theta: number[], withJacobian: boolean): Evaluation => {
+    if (withJacobian) jacobianEvaluations++;
+    else residualEvaluations++;
+    let out: Evaluation;
+    try {
+      if (withJacobian) {
+        const rj = problem.residualsAndJacobian(theta.slice());
+        if (rj === null) {
+          out = { ok: false, why: 'the residuals and Jacobian could not be computed' };
+        } else {
+          out = checkResiduals(rj.residuals);
+          if (out.ok) {
+            const jac = toJacobianMatrix(rj.jacobian, out.residuals.length, p);
+            out = matrixAllFinite(jac) ? { ...out, jacobian: jac } : { ok: false, why: 'some Jacobian entries are not finite numbers' };
+          }
+        }
+      } else {
+        const r = problem.residuals(theta.slice());
+        out = r === null ? { ok: false, why: 'the residuals could not be computed' } : checkResiduals(r);
+      }
+    } catch (err) {
+      if (!(err instanceof RunFailure)) throw err;
+      out = { ok: false, why: describeFailure(err) };
+    }
+    if (!out.ok) failedEvaluations++;
+    return out;
+  };
+
+  let theta = project(start, lower, upper).theta;
+  const first = evaluate(theta, true);
+  if (!first.ok || !first.jacobian) {
+    const why = first.ok ? 'no Jacobian' : first.why;
+    return {
+      status: 'failed',
+      reason: 'start-failed',
+      message: `the residuals cannot be computed at the start point: ${why}`,
+      theta,
+      cost: Number.NaN,
+      residuals: new Float64Array(0),
+      jacobian: new Matrix(0, p),
+      gradientNorm: Number.NaN,
+      scaledGradient: Number.NaN,
+      iterations: 0,
+      acceptedSteps: 0,
+      residualEvaluations,
+      jacobianEvaluations,
+      failedEvaluations,
+      atBound: boundStatus(theta, lower, upper),
+    };
+  }
+  let r = first.residuals;
+  let J = first.jacobian;
+  nResiduals = r.length;
+  let fnorm = norm2(r);
+
+  // Scaling: column norms, a zero column counting as 1 (MINPACK), then a running maximum.
+  const D = columnNorms(J);
+  for (let k = 0; k < p; k++) if (D[k] === 0) D[k] = 1;
+  let xnorm = scaledNorm(D, theta);
+  let delta = factor * xnorm;
+  if (delta === 0) delta = factor;
+  let damping = 0;
+
+  let iterations = 0;
+  let acceptedSteps = 0;
+  let scaledGradient = Number.NaN;
+  let gradientNorm = Number.NaN;
+  let status: SolverResult['status'] = 'converged';
+  let reason: StopReason = 'cost';
+  let message = '';
+
+  const finish = (): SolverResult => ({
+    status,
+    reason,
+    message,
+    theta,
+    cost: fnorm * fnorm,
+    residuals: r,
+    jacobian: J,
+    gradientNorm,
+    scaledGradient,
+    iterations,
+    acceptedSteps,
+    residualEvaluations,
+    jacobianEvaluations,
+    failedEvaluations,
+    atBound: boundStatus(theta, lower, upper),
+  });
+
+  for (;;) {
+    // Gradient (of cost/2) and the entries free to move in this iteration.
+    const g = transposeTimes(J, r);
+    const free = movableEntries(theta, g, lower, upper);
+    const cn = columnNorms(J);
+    for (let k = 0; k < p; k++) D[k] = Math.max(D[k]!, cn[k]!);
+    scaledGradient = 0;
+    gradientNorm = 0;
+    for (const k of free) {
+      gradientNorm = Math.max(gradientNorm, 2 * Math.abs(g[k]!));
+      if (cn[k]! > 0 && fnorm > 0) scaledGradient = Math.max(scaledGradient, Math.abs(g[k]!) / (cn[k]! * fnorm));
+    }
+
+    if (fnorm === 0) {
+      reason = 'zero-residual';
+      message = 'the residuals are zero: the model reproduces the data exactly';
+      return finish();
+    }
+    if (scaledGradient <= gtol) {
+      reason = 'gradient';
+      message = free.length
+        ? `scaled gradient below ${fmt(gtol)}`
+        : 'every entry is held at a bound and the cost would only fall outside the bounds';
+      return finish();
+    }
+
+    const { R, qtr } = reduce(J, free, r);
+    const Df = Float64Array.from(free, (k) => D[k]!);
+
+    // Inner loop: trial steps until one is taken (or a stopping test passes).
+    for (;;) {
+      if (iterations >= maxIterations) {
+        status = 'stopped';
+        reason = 'iterations';
+        message = `iteration limit ${maxIterations} reached before convergence`;
+        return finish();
+      }
+      iterations++;
+      const ds = dampedStep(R, qtr, Df, delta, damping);
+      damping = ds.damping;
+      const full = theta.slice();
+      for (let k = 0; k < free.length; k++) full[free[k]!]! += ds.step[k]!;
+      const projected = project(full, lower, upper);
+      const trial = projected.theta;
+      const actual = Float64Array.from(free, (k) => trial[k]! - theta[k]!);
+      const pnorm = scaledNorm(Df, actual);
+      if (acceptedSteps === 0) delta = Math.min(delta, pnorm);
+
+      const ev = evaluate(trial, false);
+      let accepted = false;
+      let trialCost = Infinity;
+      let actred = -1;
+      let prered = 0;
+      let ratio = 0;
+      if (!ev.ok) {
+        // A trial that cannot be evaluated: reject and shrink the region (the step went too far).
+        delta = 0.25 * Math.min(delta, pnorm > 0 ? pnorm : delta);
+        damping *= 4;
+      } else {
+        const fnorm1 = norm2(ev.residuals);
+        trialCost = fnorm1 * fnorm1;
+        actred = 0.1 * fnorm1 < fnorm ? 1 - (fnorm1 / fnorm) ** 2 : -1;
+        // Predicted relative reduction of the linear model, and the directional derivative.
+        let dirder: number;
+        if (!projected.clipped) {
+          const t1 = norm2(multiplyColumns(J, free, ds.step)) / fnorm;
+          const t2 = (Math.sqrt(damping) * ds.scaledLength) / fnorm;
+          prered = t1 * t1 + 2 * t2 * t2;
+          dirder = -(t1 * t1 + t2 * t2);
+        } else {
+          const ja = multiplyColumns(J, free, actual);
+          const lin = new Float64Array(r.length);
+          let rja = 0;
+          for (let i = 0; i < r.length; i++) {
+            lin[i] = r[i]! + ja[i]!;
+            rja += r[i]! * ja[i]!;
+          }
+          prered = 1 - (norm2(lin) / fnorm) ** 2;
+          dirder = rja / (fnorm * fnorm);
+        }
+        ratio = prered > 0 ? actred / prered : 0;
+
+        if (ratio <= 0.25) {
+          let temp = actred >= 0 ? 0.5 : (0.5 * dirder) / (dirder + 0.5 * actred);
+          if (0.1 * fnorm1 >= fnorm || !(temp >= 0.1)) temp = 0.1;
+          delta = temp * Math.min(delta, pnorm / 0.1);
+          damping /= temp;
+        } else if (damping === 0 || ratio >= 0.75) {
+          delta = pnorm / 0.5;
+          damping *= 0.5;
+        }
+
+        if (ratio >= ACCEPT_RATIO) {
+          // The step is taken: now (and only now) the costly Jacobian is needed.
+          const withJ = evaluate(trial, true);
+          if (withJ.ok && withJ.jacobian) {
+            theta = trial;
+            r = withJ.residuals;
+            J = withJ.jacobian;
+            fnorm = norm2(r);
+            xnorm = scaledNorm(D, theta);
+            acceptedSteps++;
+            accepted = true;
+          } else {
+            delta = 0.25 * Math.min(delta, pnorm > 0 ? pnorm : delta);
+            damping *= 4;
+          }
+        }
+      }
+
+      options.onIteration?.({
+        iteration: iterations,
+        cost: fnorm * fnorm,
+        trialCost,
+        step: xnorm > 0 ? pnorm / xnorm : pnorm,
+        accepted,
+        radius: delta,
+        damping,
+      });
+
+      // Stopping tests (MINPACK's, in words).
+      if (fnorm === 0) {
+        reason = 'zero-residual';
+        message = 'the residuals are zero: the model reproduces the data exactly';
+        return finish();
+      }
+      if (ev.ok) {
+        const costDone = Math.abs(actred) <= ftol && prered <= ftol && 0.5 * ratio <= 1;
+        const stepDone = delta <= xtol * xnorm || delta === 0;
+        if (costDone || stepDone) {
+          reason = costDone && stepDone ? 'cost-and-step' : costDone ? 'cost' : 'step';
+          const parts: string[] = [];
+          if (costDone) parts.push(`relative cost change below ${fmt(ftol)}`);
+          if (stepDone) parts.push(`relative step below ${fmt(xtol)}`);
+          message = parts.join(' and ');
+          return finish();
+        }
+        if ((Math.abs(actred) <= EPS && prered <= EPS && 0.5 * ratio <= 1) || delta <= EPS * xnorm) {
+          reason = 'machine-precision';
+          message = 'no step can reduce the cost further at machine precision';
+          return finish();
+        }
+      } else if (delta <= xtol * xnorm || delta === 0) {
+        reason = 'step';
+        message = `relative step below ${fmt(xtol)} (trial points beyond could not be evaluated: ${ev.why})`;
+        return finish();
+      }
+      if (accepted) break;
+    }
+  }
+}

@@ -1,0 +1,102 @@
+/**
+ * The generic least-squares problem the solver works on, and what it hands back.
+ *
+ * The solver knows nothing about models, units or ODEs: it moves a vector theta within bounds to
+ * reduce cost = sum of squared residuals (the plain SSE, not half of it; every number the solver
+ * reports uses this one convention). Two callbacks give the residuals, because for ODE models the
+ * Jacobian comes from sensitivity equations integrated in the same simulation and costs several
+ * times a plain simulation: `residuals` is called for trial points, `residualsAndJacobian` only
+ * where a Jacobian is needed (at the start and after each accepted step).
+ */
+import type { Matrix } from 'ml-matrix';
+
+/**
+ * A Jacobian (rows = residuals, columns = theta entries) as an ml-matrix Matrix, as a row-major
+ * Float64Array of length nResiduals * nTheta, or as an array of rows.
+ */
+export type JacobianInput = Matrix | Float64Array | ArrayLike<number>[];
+
+export interface ResidualsWithJacobian {
+  residuals: ArrayLike<number>;
+  jacobian: JacobianInput;
+}
+
+export interface LeastSquaresProblem {
+  /**
+   * Residuals at theta. Return null (or throw a RunFailure) when they cannot be computed, e.g. a
+   * trial simulation diverged: the solver rejects that trial and shrinks its trust region.
+   */
+  residuals(theta: readonly number[]): ArrayLike<number> | null;
+  /** Residuals and their Jacobian d r / d theta at theta; null or RunFailure as above. */
+  residualsAndJacobian(theta: readonly number[]): ResidualsWithJacobian | null;
+  /** Bounds on theta (same length as the start; -Infinity / Infinity allowed). Default: none. */
+  lower?: ArrayLike<number>;
+  upper?: ArrayLike<number>;
+}
+
+/** One trial step, reported to `onIteration`. */
+export interface SolverProgress {
+  /** 1-based count of trial steps so far. */
+  iteration: number;
+  /** Cost (SSE) at the current (best) point after this trial. */
+  cost: number;
+  /** Cost at the trial point (Infinity when the evaluation failed). */
+  trialCost: number;
+  /** Relative length of the trial step: ||D step|| / ||D theta|| (D = column scaling). */
+  step: number;
+  accepted: boolean;
+  /** Trust-region radius and Levenberg-Marquardt damping after this trial. */
+  radius: number;
+  damping: number;
+}
+
+export interface SolverOptions {
+  /** Limit on trial steps (each costs one residual evaluation). Default 500. */
+  maxIterations?: number;
+  /** Converged when both the actual and the predicted relative cost reduction fall below this. Default 1e-14. */
+  costTolerance?: number;
+  /** Converged when the trust radius falls below this times ||D theta||. Default 1e-10. */
+  stepTolerance?: number;
+  /** Converged when the largest cosine between a free Jacobian column and the residual vector falls below this. Default 1e-10. */
+  gradientTolerance?: number;
+  /** First trust radius = this times ||D theta_start|| (or this when that is zero). Default 100. */
+  initialRadiusFactor?: number;
+  onIteration?: (p: SolverProgress) => void;
+}
+
+/** Why the solver stopped, for programs; `message` says the same in words. */
+export type StopReason =
+  | 'cost'
+  | 'step'
+  | 'cost-and-step'
+  | 'gradient'
+  | 'zero-residual'
+  | 'machine-precision'
+  | 'iterations'
+  | 'start-failed';
+
+export interface SolverResult {
+  status: 'converged' | 'stopped' | 'failed';
+  reason: StopReason;
+  /** In words, e.g. "relative cost change below 1e-10". */
+  message: string;
+  theta: number[];
+  /** Sum of squared residuals at theta (NaN only when the start failed). */
+  cost: number;
+  residuals: Float64Array;
+  /** Jacobian at theta (nResiduals x nTheta); 0 x nTheta when the start failed. */
+  jacobian: Matrix;
+  /** Largest |d cost / d theta_i| over entries not held at a bound (cost = SSE, so this is 2 |J^T r|). */
+  gradientNorm: number;
+  /** The scale-free gradient measure of the gradient test (largest cosine, see gradientTolerance). */
+  scaledGradient: number;
+  /** Trial steps taken (accepted or rejected). */
+  iterations: number;
+  acceptedSteps: number;
+  /** Calls of `residuals` and of `residualsAndJacobian`, and the calls of either that failed. */
+  residualEvaluations: number;
+  jacobianEvaluations: number;
+  failedEvaluations: number;
+  /** Per theta entry: whether it ended on a bound. */
+  atBound: (false | 'lower' | 'upper')[];
+}
