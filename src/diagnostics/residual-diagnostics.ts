@@ -70,17 +70,30 @@ export function residualDiagnostics(series: ResidualSeries, inputs: InputSignal[
   let correlatedUpTo: number | undefined;
   let correlatedWords: string | undefined;
   if (!white) {
+    // The time scale of the correlation: the run of lags from lag 1 whose r_k lies outside
+    // Bartlett's band for a process correlated only up to lag k - 1, 1.96 sqrt((1 + 2 sum_{j<k}
+    // r_j^2) / n) (Box & Jenkins, Time Series Analysis, section 6.2.2, standard error used to find
+    // where a moving-average autocorrelation cuts off; quoted from memory). The band widens with
+    // the correlation already seen, so the sampling wiggle of a slowly decaying autocorrelation
+    // does not stretch the run; an oscillation ends it near its first zero crossing.
+    const z = normalQuantile(1 - alpha / 2, 0, 1);
     let run = 0;
-    while (run + 1 < r.length && Math.abs(r[run + 1]) > band) run++;
+    let sumSq = 0;
+    for (let k = 1; k < r.length; k++) {
+      if (Math.abs(r[k]) <= z * Math.sqrt((1 + 2 * sumSq) / n)) break;
+      run = k;
+      sumSq += r[k] * r[k];
+    }
     if (run === 0) {
-      // No run from lag 1: name the largest single significant lag of the test instead.
+      // No run from lag 1: name the largest lag of the test outside the per-lag band.
       for (let k = 1; k <= lTest; k++) if (Math.abs(r[k]) > band) run = k;
     }
     if (run > 0) {
       correlatedUpTo = timeOfLag(run);
+      // A run reaching the last fifth of the lags examined: the time scale may lie beyond them.
       correlatedWords =
-        run >= lShow
-          ? `residuals are correlated beyond ${say(run)} (the longest lag examined): the model misses slow dynamics or a drift`
+        run > 0.8 * lShow
+          ? `residuals are correlated beyond ${say(run)} (near the longest lag examined, ${say(lShow)}): the model misses slow dynamics or a drift`
           : `residuals are correlated up to ${say(run)}: the model misses dynamics on that time scale`;
     } else {
       correlatedWords = `residuals are not white (Ljung-Box p = ${lb.pValue.toPrecision(2)}) though no single lag stands out: the model misses small effects spread over many time scales`;
