@@ -11,11 +11,15 @@ import { writeFolderAtomic, type FolderEntry } from '../util/atomic-write.js';
 import { renderEstimatesYaml } from './estimates-yaml.js';
 import { renderFitJson } from './fit-json.js';
 import { renderResidualsCsv } from './residuals-csv.js';
+import { renderFitReport } from './html/render-fit-report.js';
 
 /** Files a results folder of ours may hold; anything else means the folder is someone else's. */
 export const RESULT_FILES = ['estimates.yaml', 'fit.json', 'residuals.csv', 'report.html'] as const;
 
-export type HtmlRenderer = (outcome: FitOutcome) => string;
+export type HtmlRenderer = (outcome: FitOutcome) => string | Promise<string>;
+
+/** report.html from the in-memory results, by the report renderer. */
+export const reportRenderer: HtmlRenderer = (outcome) => renderFitReport(outcome.result, outcome.residuals);
 
 export interface WriteResultsOptions {
   /** Every output of the model in model order (residuals.csv columns). */
@@ -57,7 +61,7 @@ export function assertReplaceable(folder: string): void {
 }
 
 /** Write the results folder; returns its absolute path. */
-export function writeResults(folder: string, outcome: FitOutcome, options: WriteResultsOptions): string {
+export async function writeResults(folder: string, outcome: FitOutcome, options: WriteResultsOptions): Promise<string> {
   const target = resolve(folder);
   assertReplaceable(target);
   const files: Record<string, FolderEntry> = {
@@ -65,10 +69,8 @@ export function writeResults(folder: string, outcome: FitOutcome, options: Write
     'fit.json': () => renderFitJson(outcome.result),
     'residuals.csv': () => renderResidualsCsv(outcome.residuals, options.outputs),
   };
-  if (options.renderHtml) {
-    const render = options.renderHtml;
-    files['report.html'] = () => render(outcome);
-  }
+  // The report renders asynchronously (plots); everything else is built while the folder is written.
+  if (options.renderHtml) files['report.html'] = await options.renderHtml(outcome);
   Object.assign(files, options.extraFiles ?? {});
   writeFolderAtomic(target, files, () => true);
   return target;

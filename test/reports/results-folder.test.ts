@@ -73,54 +73,54 @@ describe('residuals.csv', () => {
 });
 
 describe('results folder', () => {
-  it('writes the three files, replaces a previous folder of ours as a whole', () => {
+  it('writes the three files, replaces a previous folder of ours as a whole', async () => {
     const dir = tmp();
     const out = join(dir, 'demo-rig-fit');
-    writeResults(out, sampleOutcome(), { outputs: ['speed'] });
+    await writeResults(out, sampleOutcome(), { outputs: ['speed'] });
     expect(readdirSync(out).sort()).toEqual(['estimates.yaml', 'fit.json', 'residuals.csv']);
     const fit = JSON.parse(readFileSync(join(out, 'fit.json'), 'utf8'));
     expect(fit.tool).toBe('rigcal');
     expect(fit.statistics.aicc).toBeNull(); // Infinity is not JSON
     const o2 = sampleOutcome();
     o2.result.iterations = 99;
-    writeResults(out, o2, { outputs: ['speed'] });
+    await writeResults(out, o2, { outputs: ['speed'] });
     expect(JSON.parse(readFileSync(join(out, 'fit.json'), 'utf8')).iterations).toBe(99);
     expect(readdirSync(dir)).toEqual(['demo-rig-fit']); // no temporary or old copies left
   });
 
-  it('an error mid-write leaves no folder, or the old folder intact', () => {
+  it('an error mid-write leaves no folder, or the old folder intact', async () => {
     const dir = tmp();
     const out = join(dir, 'r');
     const boom = () => {
       throw new Error('disk full (simulated)');
     };
-    expect(() => writeResults(out, sampleOutcome(), { outputs: ['speed'], extraFiles: { 'zz.txt': boom } })).toThrow(/disk full/);
+    await expect(writeResults(out, sampleOutcome(), { outputs: ['speed'], extraFiles: { 'zz.txt': boom } })).rejects.toThrow(/disk full/);
     expect(existsSync(out)).toBe(false);
     expect(readdirSync(dir)).toEqual([]);
-    writeResults(out, sampleOutcome(), { outputs: ['speed'] });
+    await writeResults(out, sampleOutcome(), { outputs: ['speed'] });
     const before = readFileSync(join(out, 'fit.json'), 'utf8');
     const o2 = sampleOutcome();
     o2.result.iterations = 1234;
-    expect(() => writeResults(out, o2, { outputs: ['speed'], extraFiles: { 'zz.txt': boom } })).toThrow(/disk full/);
+    await expect(writeResults(out, o2, { outputs: ['speed'], extraFiles: { 'zz.txt': boom } })).rejects.toThrow(/disk full/);
     expect(readFileSync(join(out, 'fit.json'), 'utf8')).toBe(before);
     expect(readdirSync(dir)).toEqual(['r']);
   });
 
-  it('refuses to replace a folder that is not ours', () => {
+  it('refuses to replace a folder that is not ours', async () => {
     const dir = tmp();
     const foreign = join(dir, 'mine');
     mkdirSync(foreign);
     writeFileSync(join(foreign, 'notes.txt'), 'precious');
-    expect(() => writeResults(foreign, sampleOutcome(), { outputs: ['speed'] })).toThrow(UserError);
+    await expect(writeResults(foreign, sampleOutcome(), { outputs: ['speed'] })).rejects.toThrow(UserError);
     expect(readFileSync(join(foreign, 'notes.txt'), 'utf8')).toBe('precious');
     // ours, but with a file we did not write: also refused (replacing would delete it)
     const ours = join(dir, 'ours');
-    writeResults(ours, sampleOutcome(), { outputs: ['speed'] });
+    await writeResults(ours, sampleOutcome(), { outputs: ['speed'] });
     writeFileSync(join(ours, 'notes.txt'), 'precious');
-    expect(() => writeResults(ours, sampleOutcome(), { outputs: ['speed'] })).toThrow(/did not write/);
+    await expect(writeResults(ours, sampleOutcome(), { outputs: ['speed'] })).rejects.toThrow(/did not write/);
     const file = join(dir, 'plain-file');
     writeFileSync(file, 'x');
-    expect(() => writeResults(file, sampleOutcome(), { outputs: ['speed'] })).toThrow(/not a folder/);
+    await expect(writeResults(file, sampleOutcome(), { outputs: ['speed'] })).rejects.toThrow(/not a folder/);
   });
 });
 

@@ -1,0 +1,398 @@
+/**
+ * The fit pipeline on an already compiled model and loaded data: starts, the least-squares solve,
+ * the noise-level iteration, uncertainty, identifiability, scores of every experiment, and the
+ * complete FitResult. Its collaborators (simulator, solver, uncertainty, identifiability,
+ * multistart, residual diagnostics) come in as `FitDeps`, so that this file is about the order of
+ * the work and nothing else; fit.ts wires the real ones.
+ */
+import type { Matrix } from 'ml-matrix';
+import { RunFailure, UserError } from '../errors.js';
+import type { ExperimentData } from '../data/types.js';
+import type { CompiledModel } from '../model/compiled-types.js';
+import type { Model } from '../model/types.js';
+import type { SimulationResult } from '../simulation/types.js';
+import { TOOL, VERSION } from '../version.js';
+import type { FitOptions, FitOutcome, ResidualSeries } from './fit-api.js';
+import type { FitResult, IdentifiabilityProblem, OutputResult, ParameterResult, WhitenessResult } from './fit-result.js';
+import { aicc, bic, gaussianLogLikelihood } from './information-criteria.js';
+import { initialNoise, largestRelativeChange, MAX_SIGMA_ROUNDS, SIGMA_TOLERANCE, updatedSigmas } from './noise.js';
+import { buildProblem, perOutputSums, type EstimationProblem, type SimulatorFns } from './problem.js';
+import type { LeastSquaresProblem, SolverOptions, SolverResult } from './solver/types.js';
+
+export interface UncertaintyInput {
+  /** Weighted Jacobian at the optimum, in the optimiser's coordinates. */
+  jacobian: Matrix;
+  residuals: Float64Array;
+  scales: ('log' | 'linear')[];
+  /** Estimates in the parameters' own units. */
+  values: number[];
+  /** True when any noise level was estimated (then s^2 = SSE/(N-p), else 1). */
+  sigmaEstimated: boolean;
+  atBound: (false | 'lower' | 'upper')[];
+}
+export interface UncertaintyOutput {
+  /** Per theta entry, in the parameter's own unit; null when the data do not determine it. */
+  stdError: (number | null)[];
+  ci95: ([number, number] | null)[];
+  correlation: (number | null)[][];
+}
+export interface IdentifiabilityInput {
+  jacobian: Matrix;
+  names: string[];
+  scales: ('log' | 'linear')[];
+  correlation: (number | null)[][];
+}
+export interface IdentifiabilityOutput {
+  conditionNumber: number | null;
+  singularValues: number[];
+  problems: IdentifiabilityProblem[];
+  /** Plain-word warnings (e.g. high pairwise correlation). */
+  warnings: string[];
+}
+export interface DiagnosticsOutput {
+  whiteness?: WhitenessResult;
+  autocorrelation?: OutputResult['autocorrelation'];
+  inputCorrelation?: OutputResult['inputCorrelation'];
+  correlatedUpTo?: number;
+  verdict: string;
+}
+
+export interface FitDeps {
+  sim: SimulatorFns;
+  solve(problem: LeastSquaresProblem, start: readonly number[], options: SolverOptions): SolverResult;
+  uncertainty(input: UncertaintyInput): UncertaintyOutput;
+  identifiability(input: IdentifiabilityInput): IdentifiabilityOutput;
+  /** `count` starts spread over [lower, upper] (seeded); the first may be the model's start. */
+  starts(count: number, seed: number, lower: number[], upper: number[], start: number[]): number[][];
+  /** Number of distinct optima among the runs (rule documented where implemented). */
+  distinctOptima(runs: { cost: number; theta: number[] }[]): number;
+  diagnostics?(series: ResidualSeries, inputs: { name: string; values: ArrayLike<number> }[], timeUnit: string): DiagnosticsOutput;
+  /** Clock in seconds (injected so that tests can be deterministic). */
+  now?(): number;
+}
+
+/** |correlation| above this is worth a warning even when the identifiability check passes. */
+const HIGH_CORRELATION = 0.95;
+
+function fmt(x: number): string {
+  return Number.isFinite(x) ? Number(x.toPrecision(4)).toString() : String(x);
+}
+
+/** Read-only summary of the solver run(s) kept for the result. */
+interface SolveSummary {
+  run: SolverResult;
+  iterations: number;
+  rounds: number;
+  sigmaConverged: boolean;
+}
+
+export function runFit(model: Model, compiled: CompiledModel, data: readonly ExperimentData[], options: FitOptions, deps: FitDeps): FitOutcome {
+  const now = deps.now ?? (() => performance.now() / 1000);
+  const t0 = now();
+  const fitData = data.filter((d) => d.experiment.role === 'fit');
+  const validationData = data.filter((d) => d.experiment.role === 'validation');
+  if (!model.parameters.some((p) => p.kind === 'free')) {
+    throw new UserError({ where: { file: model.fileAsGiven, key: 'parameters' }, what: 'no free parameter to estimate', fix: 'mark at least one parameter `free: [min, max]`' });
+  }
+  if (fitData.length === 0) {
+    throw new UserError({ where: { file: model.fileAsGiven, key: 'experiments' }, what: 'no experiment with role `fit`', fix: 'give at least one experiment `role: fit` (the default)' });
+  }
+  const noise = initialNoise(model, fitData);
+  const problem = buildProblem(compiled, fitData, noise.sigmas, deps.sim);
+  if (problem.nResiduals === 0) {
+    throw new UserError({ where: { file: model.fileAsGiven, key: 'outputs' }, what: 'the fit experiments hold no measured output samples', fix: 'check the output columns of the fit experiments' });
+  }
+  const warnings: string[] = [];
+  const maxIterations = options.maxIterations;
+  const lower = problem.entries.map((e) => e.lower);
+  const upper = problem.entries.map((e) => e.upper);
+
+  const lsq: LeastSquaresProblem = {
+    residuals: (th) => problem.residuals(th),
+    residualsAndJacobian: (th) => problem.residualsAndJacobian(th),
+    lower,
+    upper,
+  };
+  const solveFrom = (start: readonly number[], startIndex: number): SolverResult =>
+    deps.solve(lsq, start, {
+      maxIterations,
+      onIteration: options.onProgress
+        ? (p) => options.onProgress!({ start: startIndex, iteration: p.iteration, cost: p.cost, step: p.step })
+        : undefined,
+    });
+
+  // 1. Starts: the model's start, or N seeded starts spread over the bounds; the best is kept.
+  const startTheta = problem.startTheta();
+  let best: SolverResult;
+  let startsInfo: FitResult['starts'];
+  let totalIterations = 0;
+  const requested = Math.max(1, Math.floor(options.starts ?? 1));
+  if (requested > 1) {
+    const seed = options.seed ?? 1;
+    const points = deps.starts(requested, seed, lower, upper, startTheta);
+    const runs: SolverResult[] = [];
+    points.forEach((pt, i) => {
+      const r = solveFrom(pt, i + 1);
+      totalIterations += r.iterations;
+      runs.push(r);
+    });
+    const ok = runs.filter((r) => r.status !== 'failed' && Number.isFinite(r.cost));
+    if (ok.length === 0) throw startFailure(problem, runs[0]);
+    best = ok.reduce((a, b) => (b.cost < a.cost ? b : a));
+    const costs = ok.map((r) => r.cost).sort((a, b) => a - b);
+    startsInfo = {
+      requested,
+      seed,
+      distinctOptima: deps.distinctOptima(ok.map((r) => ({ cost: r.cost, theta: r.theta }))),
+      bestCosts: costs.slice(0, 10),
+    };
+    if (ok.length < runs.length) warnings.push(`${runs.length - ok.length} of ${runs.length} starts could not be simulated or failed; the best of the others is kept`);
+  } else {
+    best = solveFrom(startTheta, 1);
+    totalIterations += best.iterations;
+    if (best.status === 'failed') throw startFailure(problem, best);
+  }
+
+  // 2. Noise levels not given: refit with sigma = RMS residual per output until they settle.
+  const summary = iterateNoise(problem, noise, best, solveFrom);
+  totalIterations += summary.iterations;
+  const run = summary.run;
+  if (!summary.sigmaConverged) {
+    warnings.push(`the estimated noise levels still changed by more than ${SIGMA_TOLERANCE * 100} % after ${MAX_SIGMA_ROUNDS} refits; the weighting may not be settled`);
+  }
+  if (run.status === 'stopped') warnings.push(`the fit stopped at the iteration limit before converging (${run.message}); raise --max-iterations or check the start values`);
+
+  // 3. Uncertainty and identifiability at the optimum.
+  const entries = problem.entries;
+  const values = problem.valuesOf(run.theta);
+  const scales = entries.map((e) => e.scale);
+  const anyEstimated = noise.estimated.some((e, j) => e && problem.blocks.some((b) => b.output === j));
+  const unc = deps.uncertainty({ jacobian: run.jacobian, residuals: run.residuals, scales, values, sigmaEstimated: anyEstimated, atBound: run.atBound });
+  const ident = deps.identifiability({ jacobian: run.jacobian, names: entries.map((e) => e.name), scales, correlation: unc.correlation });
+
+  // 4. Parameters: model order, per-experiment copies in place of their parameter.
+  const parameters: ParameterResult[] = [];
+  const valueByName: Record<string, number> = {};
+  for (const spec of model.parameters) {
+    if (spec.kind === 'fixed') {
+      parameters.push({ name: spec.name, parameter: spec.name, unit: spec.unit, status: 'fixed', estimate: spec.value });
+      valueByName[spec.name] = spec.value;
+      continue;
+    }
+    entries.forEach((e, k) => {
+      if (e.parameter !== spec.name) return;
+      const atBound = run.atBound[k] ?? false;
+      const row: ParameterResult = {
+        name: e.name,
+        parameter: e.parameter,
+        unit: spec.unit,
+        status: 'free',
+        estimate: values[k],
+        stdError: unc.stdError[k],
+        ci95: unc.ci95[k],
+        min: e.min,
+        max: e.max,
+        start: e.start,
+        scale: e.scale,
+        atBound,
+      };
+      if (e.experiment !== undefined) row.experiment = e.experiment;
+      parameters.push(row);
+      valueByName[e.name] = values[k];
+      if (atBound) {
+        const b = atBound === 'lower' ? e.min : e.max;
+        warnings.push(`${e.name} is at its ${atBound} bound ${fmt(b)}${spec.unit ? ' ' + spec.unit : ''}; its interval is not reliable`);
+      }
+    });
+  }
+  for (const e of entries) {
+    if (unc.stdError[entries.indexOf(e)] === null) {
+      warnings.push(`${e.name} is not determined by these data: no standard error or interval (see identifiability)`);
+    }
+  }
+  for (const p of ident.problems) warnings.push(p.message);
+  for (const w of ident.warnings) if (!warnings.includes(w)) warnings.push(w);
+  addCorrelationWarnings(entries.map((e) => e.name), unc.correlation, warnings);
+
+  // 5. Statistics with the final weighting.
+  const sums = perOutputSums(problem, run.residuals);
+  const N = problem.nResiduals;
+  const p = entries.length;
+  const weightedSSE = run.cost;
+  const terms = problem.sigmas.map((s, j) => ({ samples: sums.samples[j], sigma: s, weightedSSE: sums.sse[j] })).filter((t) => t.samples > 0);
+  const logLikelihood = gaussianLogLikelihood(terms);
+  const estimatedSigmas = noise.estimated.filter((e, j) => e && sums.samples[j] > 0).length;
+  const k = p + estimatedSigmas;
+  const statistics: FitResult['statistics'] = {
+    observations: N,
+    freeParameters: p,
+    dof: N - p,
+    weightedSSE,
+    logLikelihood,
+    aicc: aicc(logLikelihood, k, N),
+    bic: bic(logLikelihood, k, N),
+  };
+  if (!anyEstimated && N > p) statistics.reducedChiSquare = weightedSSE / (N - p);
+  if (N <= p) warnings.push(`only ${N} measured samples for ${p} free parameters: nothing is left to judge the fit`);
+
+  // 6. Every experiment simulated at the estimates: fit ones for the residuals, validation ones scored.
+  const residuals: ResidualSeries[] = [];
+  const outputs: OutputResult[] = [];
+  const score = (d: ExperimentData, res: SimulationResult) => {
+    model.outputs.forEach((o, j) => {
+      const meas = d.outputs[j];
+      if (!meas) return;
+      const series: ResidualSeries = { experiment: d.experiment.name, role: d.experiment.role, output: o.name, unit: o.unit, time: d.time, measured: meas, simulated: res.outputs[j] };
+      residuals.push(series);
+      const q = scoreSeries(meas, res.outputs[j]);
+      const row: OutputResult = {
+        experiment: d.experiment.name,
+        output: o.name,
+        unit: o.unit,
+        role: d.experiment.role,
+        samples: q.samples,
+        missing: d.missing[j],
+        sigma: problem.sigmas[j],
+        sigmaEstimated: noise.estimated[j],
+        rmse: q.rmse,
+        nrmse: q.nrmse,
+        r2: q.r2,
+      };
+      if (deps.diagnostics) {
+        const inputs = model.inputs.map((inp, i) => ({ name: inp.name, values: d.inputs[i] }));
+        const diag = deps.diagnostics(series, inputs, model.timeUnit);
+        if (diag.whiteness) row.whiteness = diag.whiteness;
+        if (diag.autocorrelation) row.autocorrelation = diag.autocorrelation;
+        if (diag.inputCorrelation) row.inputCorrelation = diag.inputCorrelation;
+        if (diag.correlatedUpTo !== undefined) row.correlatedUpTo = diag.correlatedUpTo;
+        row.verdict = diag.verdict;
+      }
+      outputs.push(row);
+    });
+  };
+  const fitSims = fitData.map((d, i) => {
+    problem.counters.simulations++;
+    return deps.sim.simulateExperiment(compiled, d, problem.paramsFor(run.theta, i));
+  });
+  fitData.forEach((d, i) => score(d, fitSims[i]));
+  const perExperiment = model.parameters.filter((s) => s.kind === 'free' && s.perExperiment).map((s) => s.name);
+  for (const d of validationData) {
+    // A validation experiment has no copy of a per-experiment parameter: it keeps the start value.
+    const pv = deps.sim.parameterVector(compiled, d.index);
+    entries.forEach((e, i) => {
+      if (e.fitIndex === undefined) pv[e.slot] = values[i];
+    });
+    if (perExperiment.length) {
+      warnings.push(`validation experiment ${d.experiment.name} has no estimate of the per-experiment parameter${perExperiment.length > 1 ? 's' : ''} ${perExperiment.join(', ')}; the start value${perExperiment.length > 1 ? 's were' : ' was'} used`);
+    }
+    try {
+      problem.counters.simulations++;
+      score(d, deps.sim.simulateExperiment(compiled, d, pv));
+    } catch (err) {
+      if (!(err instanceof RunFailure)) throw err;
+      warnings.push(`validation experiment ${d.experiment.name} could not be simulated at the estimates: ${err.message}`);
+    }
+  }
+
+  const result: FitResult = {
+    tool: TOOL,
+    version: VERSION,
+    format: 1,
+    model: { name: model.name, file: model.fileAsGiven, sha256: model.sha256, ...(model.description ? { description: model.description } : {}) },
+    timeUnit: model.timeUnit,
+    experiments: data.map((d) => ({ name: d.experiment.name, role: d.experiment.role, file: d.experiment.fileAsWritten, sha256: d.sha256, rows: d.time.length })),
+    status: run.status,
+    message: run.message,
+    iterations: totalIterations,
+    simulations: problem.counters.simulations,
+    sensitivitySimulations: problem.counters.sensitivitySimulations,
+    wallSeconds: 0,
+    ...(startsInfo ? { starts: startsInfo } : {}),
+    parameters,
+    correlation: { names: entries.map((e) => e.name), matrix: unc.correlation },
+    statistics,
+    outputs,
+    identifiability: { conditionNumber: ident.conditionNumber, singularValues: ident.singularValues, problems: ident.problems },
+    warnings,
+    provenance: {
+      modelFile: model.fileAsGiven,
+      modelSha256: model.sha256,
+      dataFiles: data.map((d) => ({ experiment: d.experiment.name, file: d.experiment.fileAsWritten, sha256: d.sha256 })),
+      toolVersion: VERSION,
+      date: new Date().toISOString(),
+      overrides: { ...model.overrides },
+    },
+  };
+  if (summary.rounds > 1) result.message += ` (noise levels settled after ${summary.rounds} fits)`;
+  result.wallSeconds = now() - t0;
+  return { result, residuals, values: valueByName };
+}
+
+function startFailure(problem: EstimationProblem, run: SolverResult | undefined): RunFailure {
+  const why = problem.lastFailure?.message ?? run?.message ?? 'the residuals could not be computed';
+  const values = Object.fromEntries(problem.entries.map((e) => [e.name, e.start]));
+  return new RunFailure(`cannot simulate at the start values: ${why}`, { ...(problem.lastFailure?.details ?? {}), start: values });
+}
+
+function iterateNoise(
+  problem: EstimationProblem,
+  noise: ReturnType<typeof initialNoise>,
+  first: SolverResult,
+  solveFrom: (start: readonly number[], startIndex: number) => SolverResult,
+): SolveSummary {
+  let run = first;
+  let iterations = 0;
+  let rounds = 1;
+  const anyEstimated = noise.estimated.some((e, j) => e && problem.blocks.some((b) => b.output === j));
+  if (!anyEstimated) return { run, iterations, rounds, sigmaConverged: true };
+  for (;;) {
+    const sums = perOutputSums(problem, run.residuals);
+    const next = updatedSigmas(noise, problem.sigmas, sums.sse, sums.samples);
+    const change = largestRelativeChange(problem.sigmas, next);
+    if (change < SIGMA_TOLERANCE) return { run, iterations, rounds, sigmaConverged: true };
+    if (rounds >= MAX_SIGMA_ROUNDS) return { run, iterations, rounds, sigmaConverged: false };
+    problem.setSigmas(next);
+    const again = solveFrom(run.theta, 1);
+    iterations += again.iterations;
+    rounds++;
+    if (again.status === 'failed') return { run, iterations, rounds, sigmaConverged: false };
+    run = again;
+  }
+}
+
+function addCorrelationWarnings(names: string[], corr: (number | null)[][], warnings: string[]): void {
+  for (let i = 0; i < names.length; i++) {
+    for (let j = i + 1; j < names.length; j++) {
+      const c = corr[i]?.[j];
+      if (c === null || c === undefined || Math.abs(c) <= HIGH_CORRELATION) continue;
+      const already = warnings.some((w) => w.includes(names[i]) && w.includes(names[j]));
+      if (!already) {
+        warnings.push(`${names[i]} and ${names[j]} are strongly correlated (${c.toFixed(3)}): the data hardly tell them apart`);
+      }
+    }
+  }
+}
+
+/** RMSE, NRMSE and R^2 over samples where both values exist (local so that the pipeline has no cycle). */
+function scoreSeries(measured: ArrayLike<number>, simulated: ArrayLike<number>) {
+  let n = 0;
+  let sum = 0;
+  for (let i = 0; i < measured.length; i++) {
+    if (Number.isFinite(measured[i]) && Number.isFinite(simulated[i])) {
+      n++;
+      sum += measured[i];
+    }
+  }
+  if (n === 0) return { samples: 0, rmse: NaN, nrmse: NaN, r2: NaN };
+  const mean = sum / n;
+  let sse = 0;
+  let sst = 0;
+  for (let i = 0; i < measured.length; i++) {
+    if (Number.isFinite(measured[i]) && Number.isFinite(simulated[i])) {
+      sse += (measured[i] - simulated[i]) ** 2;
+      sst += (measured[i] - mean) ** 2;
+    }
+  }
+  const rmse = Math.sqrt(sse / n);
+  return { samples: n, rmse, nrmse: sst > 0 ? rmse / Math.sqrt(sst / n) : NaN, r2: sst > 0 ? 1 - sse / sst : NaN };
+}
