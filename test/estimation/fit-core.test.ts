@@ -1,0 +1,121 @@
+/**
+ * The pipeline's order of work on the closed-form decay rig (helpers/decay-rig.ts) with the real
+ * solver; uncertainty and identifiability are replaced by recording fakes, since they are tested by
+ * their own engineer: here we check what the pipeline hands them and what it does with the answers.
+ */
+import { describe, expect, it } from 'vitest';
+import { RunFailure } from '../../src/errors.js';
+import { runFit, type FitDeps, type UncertaintyInput } from '../../src/estimation/fit-core.js';
+import { solveLeastSquares } from '../../src/estimation/solver/index.js';
+import type { ParameterSpec } from '../../src/model/types.js';
+import { decayCompiled, decayData, decayModel, decaySimulator } from './helpers/decay-rig.js';
+import { normalGenerator } from './helpers/rng.js';
+
+const params = (over: Partial<Record<string, Partial<ParameterSpec>>> = {}): ParameterSpec[] => [
+  { name: 'k', kind: 'free', min: 0.01, max: 100, start: 0.5, scale: 'log', perExperiment: false, unit: '1/s', where: {}, ...over.k } as ParameterSpec,
+  { name: 'A', kind: 'free', min: -10, max: 10, start: 1, scale: 'linear', perExperiment: true, unit: 'V', where: {}, ...over.A } as ParameterSpec,
+  { name: 'c', kind: 'fixed', value: 0.25, unit: 'V', where: {} },
+];
+
+function deps(record: UncertaintyInput[] = []): FitDeps {
+  return {
+    sim: decaySimulator,
+    solve: (p, s, o) => solveLeastSquares(p, s, o),
+    uncertainty(input) {
+      record.push(input);
+      const n = input.values.length;
+      return { stdError: input.values.map(() => 0.01), ci95: input.values.map((v) => [v - 0.02, v + 0.02] as [number, number]), correlation: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))) };
+    },
+    identifiability: () => ({ conditionNumber: 1, singularValues: [1], problems: [], warnings: [] }),
+    starts: (count, _seed, lower, upper) => Array.from({ length: count }, (_, i) => lower.map((l, k) => l + ((i + 0.5) / count) * (upper[k] - l))),
+    distinctOptima: (runs) => new Set(runs.map((r) => r.cost.toPrecision(6))).size,
+  };
+}
+
+/** Two fit experiments and one validation experiment, truth k = 0.8, A@e1 = 2, A@e2 = 3, noise 0.02. */
+function rig(sigma?: number, p = params()) {
+  const model = decayModel(p, ['e1', 'e2', 'check'], sigma);
+  model.experiments[2].role = 'validation';
+  const compiled = decayCompiled(model);
+  const noise = normalGenerator(3);
+  const t = Array.from({ length: 60 }, (_, i) => i * 0.1);
+  const y = (A: number) => t.map((ti) => A * Math.exp(-0.8 * ti) + 0.25 + 0.02 * noise());
+  const ys = [y(2), y(3), y(1)];
+  ys[0][5] = NaN; // one missing sample
+  const data = ys.map((v, i) => decayData(model, i, t, v));
+  return { model, compiled, data };
+}
+
+describe('fit pipeline (runFit)', () => {
+  it('estimates shared and per-experiment parameters, iterates the noise level, scores validation', () => {
+    const { model, compiled, data } = rig();
+    const rec: UncertaintyInput[] = [];
+    const out = runFit(model, compiled, data, {}, deps(rec));
+    const r = out.result;
+    expect(r.status).toBe('converged');
+    expect(out.values.k).toBeCloseTo(0.8, 1);
+    expect(out.values['A@e1']).toBeCloseTo(2, 1);
+    expect(out.values['A@e2']).toBeCloseTo(3, 1);
+    expect(out.values.c).toBe(0.25);
+    expect(r.parameters.map((p) => p.name)).toEqual(['k', 'A@e1', 'A@e2', 'c']);
+    // noise: the sigma reported is the RMS residual of the final fit to within the 1 % rule
+    const fitRows = r.outputs.filter((o) => o.role === 'fit');
+    expect(fitRows).toHaveLength(2);
+    const rms = Math.sqrt(out.residuals.filter((s) => s.role === 'fit').reduce((acc, s) => acc + s.measured.reduce((a, m, i) => (Number.isNaN(m) ? a : a + (m - s.simulated[i]) ** 2), 0), 0) / 119);
+    expect(Math.abs(fitRows[0].sigma / rms - 1)).toBeLessThan(0.01);
+    expect(fitRows[0].sigmaEstimated).toBe(true);
+    expect(fitRows[0].missing).toBe(1);
+    expect(r.statistics.observations).toBe(119);
+    expect(r.statistics.freeParameters).toBe(3);
+    expect(rec[0].sigmaEstimated).toBe(true);
+    expect(rec[0].scales).toEqual(['log', 'linear', 'linear']);
+    // validation experiment: scored, never fitted; its A has no copy so the start value is used
+    const v = r.outputs.find((o) => o.role === 'validation')!;
+    expect(v.experiment).toBe('check');
+    expect(r.warnings.join('\n')).toMatch(/validation experiment check has no estimate of the per-experiment parameter A/);
+    expect(r.simulations).toBeGreaterThan(0);
+    expect(r.sensitivitySimulations).toBeGreaterThan(0);
+    expect(r.experiments!.map((e) => e.role)).toEqual(['fit', 'fit', 'validation']);
+  });
+
+  it('with given sigmas reports the reduced chi-square and does not refit', () => {
+    const { model, compiled, data } = rig(0.02);
+    const out = runFit(model, compiled, data, {}, deps());
+    const s = out.result.statistics;
+    expect(s.reducedChiSquare).toBeCloseTo(s.weightedSSE / s.dof, 12);
+    expect(out.result.outputs[0].sigma).toBe(0.02);
+    expect(out.result.message).not.toMatch(/noise levels settled/);
+  });
+
+  it('flags a parameter at its bound in words', () => {
+    const { model, compiled, data } = rig(0.02, params({ k: { min: 1, max: 100, start: 2 } }));
+    const out = runFit(model, compiled, data, {}, deps());
+    const k = out.result.parameters.find((p) => p.name === 'k')!;
+    expect(k.atBound).toBe('lower');
+    expect(out.result.warnings.join('\n')).toMatch(/k is at its lower bound 1 1\/s; its interval is not reliable/);
+  });
+
+  it('fails with RunFailure when the start cannot be simulated', () => {
+    const p = params({ k: { scale: 'linear', min: -2, max: 1, start: -1 } });
+    const { model, compiled, data } = rig(0.02, p);
+    expect(() => runFit(model, compiled, data, {}, deps())).toThrow(RunFailure);
+    expect(() => runFit(model, compiled, data, {}, deps())).toThrow(/cannot simulate at the start values: state grows/);
+  });
+
+  it('multistart keeps the best run and reports the starts', () => {
+    const { model, compiled, data } = rig(0.02);
+    const out = runFit(model, compiled, data, { starts: 4, seed: 9 }, deps());
+    expect(out.result.starts?.requested).toBe(4);
+    expect(out.result.starts?.seed).toBe(9);
+    expect(out.result.starts!.bestCosts[0]).toBeCloseTo(out.result.statistics.weightedSSE, 8);
+    expect(out.values.k).toBeCloseTo(0.8, 1);
+  });
+
+  it('reports progress through the callback', () => {
+    const { model, compiled, data } = rig(0.02);
+    const seen: number[] = [];
+    runFit(model, compiled, data, { onProgress: (p) => seen.push(p.cost) }, deps());
+    expect(seen.length).toBeGreaterThan(2);
+    expect(Math.min(...seen)).toBeLessThan(seen[0]);
+  });
+});
