@@ -1,0 +1,207 @@
+/**
+ * The forward sensitivity system (numerics.md, Sensitivities) as generated code.
+ *
+ * Forward mode through the model's DAG: for each parameter column k, the tangent of every symbol
+ * (states: S[j,k]; parameters: 1 for the column's own, else 0; a delayed input: -udot when its
+ * delay is the column's parameter; time: 0) is pushed through the local partial derivatives of each
+ * define and equation. Local partials are computed once and shared by all columns, a define's
+ * tangent is computed once per column however often it is used, and entries that are structurally
+ * zero are left out (S entries that can never become non-zero are found by a fixed point over the
+ * dependency structure and written as 0).
+ *
+ *   dS/dt = (df/dx) S + df/dp (+ (df/du_j)(-udot_j) in the column of the delay of input j)
+ *   dy    = (dg/dx) S + dg/dp (+ the same delay term)
+ *   S(t0) = dx0/dp
+ */
+import type { SensitivitySystem, Vec } from '../compiled-types.js';
+import { buildFunction, emitBody, type Assignment, type SymbolReader } from './emit.js';
+import type { LoweredModel } from './lower.js';
+
+export interface CompiledSensitivitySystem extends SensitivitySystem {
+  /**
+   * For each slot k: every input whose delay is that parameter (`delayOfInput[k]` is the first of
+   * them). Usually at most one; several inputs may share one delay parameter.
+   */
+  inputsDelayedBy: readonly (readonly number[])[];
+  /**
+   * Structural pattern of S (row-major, nStates*q): false where S[i,k] is zero for all time, so
+   * that the simulator may skip those entries in error control if it wishes.
+   */
+  nonZero: readonly boolean[];
+  /** The generated function bodies, for inspection and tests. */
+  source: { rhs: string; outputs: string; initial: string[] };
+}
+
+type RhsFn = (t: number, z: Vec, u: Vec, udot: Vec, p: Vec, dz: Vec) => void;
+type OutFn = (t: number, z: Vec, u: Vec, udot: Vec, p: Vec, y: Vec, dy: Vec) => void;
+type InitFn = (p: Vec, z0: Vec) => void;
+
+export function buildSensitivitySystem(low: LoweredModel, slots: readonly number[]): CompiledSensitivitySystem {
+  const { pool, diff, nStates: n } = low;
+  const q = slots.length;
+  const columnOfParam = new Map<number, number>();
+  slots.forEach((s, k) => {
+    if (!Number.isInteger(s) || s < 0 || s >= low.nParams) throw new RangeError(`sensitivity slot ${s} is not a parameter slot (0..${low.nParams - 1})`);
+    if (columnOfParam.has(s)) throw new RangeError(`sensitivity slot ${s} is listed twice`);
+    columnOfParam.set(s, k);
+  });
+
+  const inputsDelayedBy = slots.map((s) => low.delaySlot.flatMap((d, j) => (d === s ? [j] : [])));
+  const delayOfInput = inputsDelayedBy.map((js) => (js.length ? js[0]! : -1));
+
+  // Which symbols each resolved expression reads (defines expanded): x_j, u_j, p_m.
+  const readsOf = (raw: number) => {
+    const x: number[] = [];
+    const u: number[] = [];
+    const p: number[] = [];
+    for (const s of diff.deps(low.resolve(raw))) {
+      const node = pool.node(s);
+      if (node.op !== 'sym') continue;
+      if (node.kind === 'x') x.push(node.index);
+      else if (node.kind === 'u') u.push(node.index);
+      else if (node.kind === 'p') p.push(node.index);
+    }
+    return { x, u, p };
+  };
+
+  // Structural non-zeros of S: seeded by the initial values of every experiment, grown by the
+  // equations until nothing changes.
+  const nz: boolean[] = new Array(n * q).fill(false);
+  const initialLists = [low.initialBase, ...low.initialByExperiment];
+  for (const list of initialLists) {
+    list.forEach((raw, i) => {
+      for (const m of readsOf(raw).p) {
+        const k = columnOfParam.get(m);
+        if (k !== undefined) nz[i * q + k] = true;
+      }
+    });
+  }
+  const eqReads = low.equations.map(readsOf);
+  for (let changed = true; changed; ) {
+    changed = false;
+    for (let i = 0; i < n; i++) {
+      const r = eqReads[i]!;
+      for (let k = 0; k < q; k++) {
+        if (nz[i * q + k]) continue;
+        const on =
+          r.p.includes(slots[k]!) || r.u.some((j) => low.delaySlot[j] === slots[k]) || r.x.some((j) => nz[j * q + k]);
+        if (on) {
+          nz[i * q + k] = true;
+          changed = true;
+        }
+      }
+    }
+  }
+
+  // Tangents, column by column, on raw nodes (defines as intermediates).
+  const defineTangent = new Map<string, number>();
+  const symbolTangent = (s: number, k: number): number => {
+    const node = pool.node(s);
+    if (node.op !== 'sym') throw new Error('internal: tangent of a non-symbol');
+    switch (node.kind) {
+      case 'x':
+        return nz[node.index * q + k] ? pool.sym('S', node.index * q + k) : pool.ZERO;
+      case 'u':
+        return low.delaySlot[node.index] === slots[k] ? pool.neg(pool.sym('udot', node.index)) : pool.ZERO;
+      case 'p':
+        return node.index === slots[k] ? pool.ONE : pool.ZERO;
+      case 'd': {
+        const m = low.defineOfSym.get(s)!;
+        const key = `${m},${k}`;
+        let tan = defineTangent.get(key);
+        if (tan === undefined) {
+          tan = tangent(low.defines[m]!, k);
+          defineTangent.set(key, tan);
+        }
+        return tan;
+      }
+      default:
+        return pool.ZERO; // time does not depend on parameters
+    }
+  };
+  const tangent = (raw: number, k: number): number => {
+    let sum = pool.ZERO;
+    const symbols = [...diff.deps(raw)].sort((a, b) => a - b);
+    for (const s of symbols) {
+      const ts = symbolTangent(s, k);
+      if (ts === pool.ZERO) continue;
+      sum = pool.add(sum, pool.mul(diff.partial(raw, s), ts));
+    }
+    return sum;
+  };
+
+  const reader: SymbolReader = (node) => {
+    switch (node.kind) {
+      case 'x':
+        return `z[${node.index}]`;
+      case 'S':
+        return `z[${n + node.index}]`;
+      case 'u':
+        return `u[${node.index}]`;
+      case 'udot':
+        return `udot[${node.index}]`;
+      case 'p':
+        return `p[${node.index}]`;
+      case 't':
+        return 't';
+      default:
+        throw new Error(`internal: symbol ${node.kind} reached code`);
+    }
+  };
+
+  const rhsAssign: Assignment[] = [];
+  low.equations.forEach((raw, i) => rhsAssign.push({ target: 'dz', index: i, node: low.resolve(raw) }));
+  low.equations.forEach((raw, i) => {
+    for (let k = 0; k < q; k++) {
+      const node = nz[i * q + k] ? low.resolve(tangent(raw, k)) : pool.ZERO;
+      rhsAssign.push({ target: 'dz', index: n + i * q + k, node });
+    }
+  });
+  const rhsBody = emitBody(pool, rhsAssign, reader);
+
+  const outAssign: Assignment[] = [];
+  low.outputs.forEach((raw, o) => outAssign.push({ target: 'y', index: o, node: low.resolve(raw) }));
+  low.outputs.forEach((raw, o) => {
+    for (let k = 0; k < q; k++) outAssign.push({ target: 'dy', index: o * q + k, node: low.resolve(tangent(raw, k)) });
+  });
+  const outBody = emitBody(pool, outAssign, reader);
+
+  // Initial: one function per distinct list of initial values (experiments without overrides
+  // share the states' own).
+  const initBodies: string[] = [];
+  const initFns: InitFn[] = [];
+  const fnOfList = new Map<string, number>();
+  const initIndexOf = initialLists.map((list) => {
+    const key = list.join(',');
+    let index = fnOfList.get(key);
+    if (index === undefined) {
+      const assign: Assignment[] = [];
+      list.forEach((raw, i) => assign.push({ target: 'z0', index: i, node: low.resolve(raw) }));
+      list.forEach((raw, i) => {
+        for (let k = 0; k < q; k++) assign.push({ target: 'z0', index: n + i * q + k, node: low.resolve(tangent(raw, k)) });
+      });
+      const body = emitBody(pool, assign, reader);
+      index = initFns.length;
+      initBodies.push(body);
+      initFns.push(buildFunction<InitFn>(['p', 'z0'], body));
+      fnOfList.set(key, index);
+    }
+    return index;
+  });
+  const baseInit = initFns[initIndexOf[0]!]!;
+  const byExperiment = initIndexOf.slice(1).map((i) => initFns[i]!);
+
+  return {
+    slots: [...slots],
+    q,
+    rhs: buildFunction<RhsFn>(['t', 'z', 'u', 'udot', 'p', 'dz'], rhsBody),
+    outputs: buildFunction<OutFn>(['t', 'z', 'u', 'udot', 'p', 'y', 'dy'], outBody),
+    initial(experiment: number, p: Vec, z0: Vec): void {
+      (byExperiment[experiment] ?? baseInit)(p, z0);
+    },
+    delayOfInput,
+    inputsDelayedBy,
+    nonZero: nz,
+    source: { rhs: rhsBody, outputs: outBody, initial: initBodies },
+  };
+}
