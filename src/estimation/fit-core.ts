@@ -23,9 +23,14 @@ export interface UncertaintyInput {
   /** Weighted Jacobian at the optimum, in the optimiser's coordinates. */
   jacobian: Matrix;
   residuals: Float64Array;
+  /** The optimum in the optimiser's coordinates, and the entries' names. */
+  theta: number[];
+  names: string[];
   scales: ('log' | 'linear')[];
   /** Estimates in the parameters' own units. */
   values: number[];
+  bounds: { min: number; max: number }[];
+  units: string[];
   /** True when any noise level was estimated (then s^2 = SSE/(N-p), else 1). */
   sigmaEstimated: boolean;
   atBound: (false | 'lower' | 'upper')[];
@@ -35,6 +40,8 @@ export interface UncertaintyOutput {
   stdError: (number | null)[];
   ci95: ([number, number] | null)[];
   correlation: (number | null)[][];
+  /** Plain-word warnings (a parameter at a bound, no degrees of freedom...). */
+  warnings: string[];
 }
 export interface IdentifiabilityInput {
   jacobian: Matrix;
@@ -73,10 +80,6 @@ export interface FitDeps {
 
 /** |correlation| above this is worth a warning even when the identifiability check passes. */
 const HIGH_CORRELATION = 0.95;
-
-function fmt(x: number): string {
-  return Number.isFinite(x) ? Number(x.toPrecision(4)).toString() : String(x);
-}
 
 /** Read-only summary of the solver run(s) kept for the result. */
 interface SolveSummary {
@@ -167,7 +170,19 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   const values = problem.valuesOf(run.theta);
   const scales = entries.map((e) => e.scale);
   const anyEstimated = noise.estimated.some((e, j) => e && problem.blocks.some((b) => b.output === j));
-  const unc = deps.uncertainty({ jacobian: run.jacobian, residuals: run.residuals, scales, values, sigmaEstimated: anyEstimated, atBound: run.atBound });
+  const unc = deps.uncertainty({
+    jacobian: run.jacobian,
+    residuals: run.residuals,
+    theta: run.theta.slice(),
+    names: entries.map((e) => e.name),
+    scales,
+    values,
+    bounds: entries.map((e) => ({ min: e.min, max: e.max })),
+    units: entries.map((e) => model.parameters.find((q) => q.name === e.parameter)!.unit),
+    sigmaEstimated: anyEstimated,
+    atBound: run.atBound,
+  });
+  warnings.push(...unc.warnings);
   const ident = deps.identifiability({ jacobian: run.jacobian, names: entries.map((e) => e.name), scales, correlation: unc.correlation });
 
   // 4. Parameters: model order, per-experiment copies in place of their parameter.
@@ -199,14 +214,10 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
       if (e.experiment !== undefined) row.experiment = e.experiment;
       parameters.push(row);
       valueByName[e.name] = values[k];
-      if (atBound) {
-        const b = atBound === 'lower' ? e.min : e.max;
-        warnings.push(`${e.name} is at its ${atBound} bound ${fmt(b)}${spec.unit ? ' ' + spec.unit : ''}; its interval is not reliable`);
-      }
     });
   }
   for (const e of entries) {
-    if (unc.stdError[entries.indexOf(e)] === null) {
+    if (problem.nResiduals > entries.length && unc.stdError[entries.indexOf(e)] === null) {
       warnings.push(`${e.name} is not determined by these data: no standard error or interval (see identifiability)`);
     }
   }

@@ -24,7 +24,8 @@ function deps(record: UncertaintyInput[] = []): FitDeps {
     uncertainty(input) {
       record.push(input);
       const n = input.values.length;
-      return { stdError: input.values.map(() => 0.01), ci95: input.values.map((v) => [v - 0.02, v + 0.02] as [number, number]), correlation: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))) };
+      const warnings = input.atBound.flatMap((b, i) => (b ? [`${input.names[i]} at ${b} bound ${b === 'lower' ? input.bounds[i].min : input.bounds[i].max} ${input.units[i]}`] : []));
+      return { stdError: input.values.map(() => 0.01), ci95: input.values.map((v) => [v - 0.02, v + 0.02] as [number, number]), correlation: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))), warnings };
     },
     identifiability: () => ({ conditionNumber: 1, singularValues: [1], problems: [], warnings: [] }),
     starts: (count, _seed, lower, upper) => Array.from({ length: count }, (_, i) => lower.map((l, k) => l + ((i + 0.5) / count) * (upper[k] - l))),
@@ -87,12 +88,12 @@ describe('fit pipeline (runFit)', () => {
     expect(out.result.message).not.toMatch(/noise levels settled/);
   });
 
-  it('flags a parameter at its bound in words', () => {
+  it('marks a parameter at its bound and passes bounds and units on for the warning', () => {
     const { model, compiled, data } = rig(0.02, params({ k: { min: 1, max: 100, start: 2 } }));
     const out = runFit(model, compiled, data, {}, deps());
     const k = out.result.parameters.find((p) => p.name === 'k')!;
     expect(k.atBound).toBe('lower');
-    expect(out.result.warnings.join('\n')).toMatch(/k is at its lower bound 1 1\/s; its interval is not reliable/);
+    expect(out.result.warnings).toContain('k at lower bound 1 1/s');
   });
 
   it('fails with RunFailure when the start cannot be simulated', () => {
