@@ -1,15 +1,26 @@
-/** The `report` command (not built yet: this placeholder only registers the name). */
+/** `rigcal report DIR`: rebuild report.html in a results folder of `fit` from its fit.json and residuals.csv. */
+import { isAbsolute, resolve } from 'node:path';
 import type { Command } from 'commander';
-import { RunFailure } from '../../errors.js';
+import { writeReportForFolder } from '../../reports/html/write-report.js';
 import type { CommandContext } from '../io.js';
 
 export function register(program: Command, ctx: CommandContext): void {
   program
     .command('report')
-    .description('(not available yet)')
-    .allowUnknownOption()
-    .argument('[args...]')
-    .action(ctx.action(() => {
-      throw new RunFailure('the report command is not available in this build');
+    .description('rebuild report.html in a results folder of `fit` (one self-contained page that opens offline)')
+    .argument('<dir>', 'the results folder that `rigcal fit` wrote')
+    .addHelpText('after', [
+      '',
+      'Reads DIR/fit.json and DIR/residuals.csv and writes DIR/report.html (through a temporary file',
+      'and a rename). The page has no scripts and fetches nothing: open it in any browser or print it.',
+      '',
+      'Example:',
+      '  rigcal report flywheel-rig-fit',
+    ].join('\n'))
+    .action(ctx.action(async (dirArg: string) => {
+      const dir = isAbsolute(dirArg) ? dirArg : resolve(ctx.io.cwd, dirArg);
+      const written = await writeReportForFolder(dir);
+      ctx.io.stdout(`wrote ${written.file} (${(written.bytes / 1024).toFixed(0)} KiB in ${written.seconds.toFixed(2)} s)\n`);
+      return 0;
     }));
 }

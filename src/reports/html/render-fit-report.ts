@@ -25,7 +25,7 @@ export async function renderFitReport(fit: FitResult, series: readonly ResidualS
 <html lang="en">
 <head>
 <meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="${CSP}">
+<meta http-equiv="Content-Security-Policy" content="${raw(CSP)}">
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <meta name="generator" content="rigcal ${fit.version}">
 <title>${fit.model.name}: calibration report</title>
