@@ -1,0 +1,103 @@
+/**
+ * Simulation speed: a 4-state linear model (two masses, springs and dampers, force input) over a
+ * 10,000-sample log (10 s at 1 kHz, a multisine of our own, linear interpolation), with and
+ * without sensitivities. Goal: median < 20 ms for the plain simulation.
+ * Run: npx tsx bench/simulate-bench.ts
+ */
+import { performance } from 'node:perf_hooks';
+import { handData, handModel } from '../test/simulation/hand-models.js';
+import { simulateExperiment } from '../src/simulation/simulate.js';
+import type { SimulationOptions } from '../src/simulation/types.js';
+
+export function twoMassModel() {
+  // x = [x1, v1, x2, v2]; p = [m1, m2, k1, k2, c1, c2]
+  return handModel({
+    name: 'two-mass-bench',
+    states: ['x1', 'v1', 'x2', 'v2'],
+    inputs: [{ name: 'F' }],
+    params: [
+      { name: 'm1', value: 1, free: [0.1, 10] },
+      { name: 'm2', value: 0.5, free: [0.1, 10] },
+      { name: 'k1', value: 400, free: [1, 1e4] },
+      { name: 'k2', value: 250, free: [1, 1e4] },
+      { name: 'c1', value: 2, free: [0, 100] },
+      { name: 'c2', value: 1, free: [0, 100] },
+    ],
+    outputs: ['x1', 'x2'],
+    rhs: (_t, x, u, p, dx) => {
+      const s1 = p[2] * x[0] + p[4] * x[1];
+      const s2 = p[3] * (x[2] - x[0]) + p[5] * (x[3] - x[1]);
+      dx[0] = x[1];
+      dx[1] = (u[0] - s1 + s2) / p[0];
+      dx[2] = x[3];
+      dx[3] = -s2 / p[1];
+    },
+    outputsFn: (_t, x, _u, _p, y) => {
+      y[0] = x[0];
+      y[1] = x[2];
+    },
+    fx: (_t, _x, _u, p, J) => {
+      J[1] = 1;
+      J[4] = (-p[2] - p[3]) / p[0]; J[5] = (-p[4] - p[5]) / p[0]; J[6] = p[3] / p[0]; J[7] = p[5] / p[0];
+      J[11] = 1;
+      J[12] = p[3] / p[1]; J[13] = p[5] / p[1]; J[14] = -p[3] / p[1]; J[15] = -p[5] / p[1];
+    },
+    fp: (_t, x, u, p, J) => {
+      const s1 = p[2] * x[0] + p[4] * x[1];
+      const s2 = p[3] * (x[2] - x[0]) + p[5] * (x[3] - x[1]);
+      // row 1 (v1'), columns m1, m2, k1, k2, c1, c2
+      J[6 + 0] = -(u[0] - s1 + s2) / (p[0] * p[0]);
+      J[6 + 2] = -x[0] / p[0];
+      J[6 + 3] = (x[2] - x[0]) / p[0];
+      J[6 + 4] = -x[1] / p[0];
+      J[6 + 5] = (x[3] - x[1]) / p[0];
+      // row 3 (v2')
+      J[18 + 1] = s2 / (p[1] * p[1]);
+      J[18 + 3] = -(x[2] - x[0]) / p[1];
+      J[18 + 5] = -(x[3] - x[1]) / p[1];
+    },
+    gx: (_t, _x, _u, _p, J) => {
+      J[0] = 1;
+      J[4 + 2] = 1;
+    },
+  });
+}
+
+export function multisineLog(samples: number, rate: number) {
+  const time = new Float64Array(samples);
+  const force = new Float64Array(samples);
+  for (let i = 0; i < samples; i++) {
+    const t = i / rate;
+    time[i] = t;
+    force[i] = Math.sin(2 * Math.PI * 0.7 * t) + 0.5 * Math.sin(2 * Math.PI * 3.1 * t + 1) + 0.3 * Math.sin(2 * Math.PI * 11.3 * t + 2);
+  }
+  return { time, force };
+}
+
+function median(v: number[]): number {
+  const s = [...v].sort((a, b) => a - b);
+  return s[s.length >> 1];
+}
+
+function bench(label: string, options: SimulationOptions, runs = 20) {
+  const compiled = twoMassModel();
+  const { time, force } = multisineLog(10_000, 1000);
+  const data = handData(compiled, time, [force]);
+  const p = compiled.defaultParams();
+  for (let i = 0; i < 3; i++) simulateExperiment(compiled, data, p, options); // warm-up (JIT)
+  const ms: number[] = [];
+  let stats;
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now();
+    stats = simulateExperiment(compiled, data, p, options).stats;
+    ms.push(performance.now() - t0);
+  }
+  console.log(`${label}: median ${median(ms).toFixed(2)} ms, min ${Math.min(...ms).toFixed(2)} ms over ${runs} runs; ${JSON.stringify(stats)}`);
+  return median(ms);
+}
+
+const isMain = process.argv[1] && import.meta.url.endsWith(process.argv[1].replace(/.*\//, ''));
+if (isMain) {
+  bench('4 states, 10,000 samples, linear input', {});
+  bench('4 states, 10,000 samples, sensitivities for 6 parameters', { sensitivitySlots: [0, 1, 2, 3, 4, 5] });
+}

@@ -1,0 +1,306 @@
+/**
+ * The integration core: odex (Gragg-Bulirsch-Stoer extrapolation) with dense output, values at the
+ * sample times taken from the dense interpolant inside each accepted step (no restart per sample).
+ *
+ * Segments: the integrator restarts at `start` and wherever a `hold` input changes value (sample
+ * time + delay), so that no step straddles a jump. Within a segment a hold input is a constant.
+ * A sample exactly at a restart time belongs to the segment that starts there (hold inputs are
+ * right-continuous).
+ *
+ * Sensitivities: z = [x, S] with the model's sensitivity system. For a `hold` input whose delay is
+ * one of the sensitivity slots, the jump time tau = t_k + delay moves with the delay (d tau/d delay
+ * = 1), and S jumps there: S+ = S- + (f- - f+) in that delay's column, where f- is the right-hand
+ * side with the input's old value and f+ with its new one, both at x(tau). This is exact for the
+ * sample times (a sample exactly at a jump is a set of measure zero and takes S+).
+ */
+import { Outcome, Solver } from 'odex';
+import { RunFailure } from '../errors.js';
+import type { CompiledModel, SensitivitySystem } from '../model/compiled-types.js';
+import { InputTrack } from './input-track.js';
+import { diagnoseStepLimit } from './stiffness.js';
+import { tolerances } from './tolerances.js';
+import type { SimulationOptions, SimulationResult, SimulationStats } from './types.js';
+
+/** What drives one simulation: sample times, the integration start, and the logged inputs. */
+export interface Drive {
+  /** Experiment name for results and messages. */
+  name: string;
+  /** Experiment index for initial values (-1: none, declared initial values). */
+  experimentIndex: number;
+  /** Sample times in model time units, strictly increasing, all >= start. */
+  time: Float64Array;
+  start: number;
+  /** Per model input, one value per sample, in the input's unit. */
+  inputs: Float64Array[];
+}
+
+/** Default step limit per segment: generous for logs (several steps per sample) yet finite. */
+export function defaultMaxSteps(samplesInSegment: number): number {
+  return Math.max(100_000, 8 * samplesInSegment);
+}
+
+class NonFiniteState extends Error {
+  constructor(readonly t: number, readonly z: Float64Array, readonly dz: Float64Array) {
+    super('non-finite');
+  }
+}
+
+function formatParameters(compiled: CompiledModel, p: Float64Array): string {
+  const names = [...compiled.paramSlot.entries()].sort((a, b) => a[1] - b[1]);
+  const parts = names.map(([name, slot]) => `${name}=${Number(p[slot].toPrecision(6))}`);
+  return parts.length > 12 ? parts.slice(0, 12).join(', ') + `, ... (${parts.length} in all)` : parts.join(', ');
+}
+
+function parameterRecord(compiled: CompiledModel, p: Float64Array): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const [name, slot] of compiled.paramSlot) out[name] = p[slot];
+  return out;
+}
+
+/** Delay of each input in model time units: a number, or the value of the named parameter. */
+export function inputDelays(compiled: CompiledModel, p: Float64Array): number[] {
+  return compiled.model.inputs.map((inp) => {
+    if (inp.delay === undefined) return 0;
+    if (typeof inp.delay === 'number') return inp.delay;
+    const slot = compiled.paramSlot.get(inp.delay);
+    if (slot === undefined) throw new RangeError(`input ${inp.name}: delay parameter ${inp.delay} has no slot`);
+    return p[slot];
+  });
+}
+
+export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationResult {
+  const model = compiled.model;
+  const n = compiled.nStates;
+  const nIn = compiled.nInputs;
+  const nOut = compiled.nOutputs;
+  const M = drive.time.length;
+  const slots = options.sensitivitySlots;
+  const q = slots ? slots.length : 0;
+  const sens: SensitivitySystem | undefined = slots && q > 0 ? compiled.sensitivity(slots) : undefined;
+  const N = n * (1 + (sens ? q : 0));
+  const stats: SimulationStats = { rhsEvaluations: 0, steps: 0, rejectedSteps: 0, segments: 0 };
+
+  const delays = inputDelays(compiled, p);
+  const tracks = model.inputs.map((inp, j) => new InputTrack(drive.time, drive.inputs[j], inp.interpolate === 'hold', delays[j]));
+  const linearIdx = tracks.map((t, j) => (t.hold ? -1 : j)).filter((j) => j >= 0);
+  const holdIdx = tracks.map((t, j) => (t.hold ? j : -1)).filter((j) => j >= 0);
+
+  // For each sensitivity column, the hold inputs whose delay it is (their jumps move with it).
+  const delayedHoldOfColumn: number[][] = (slots ?? []).map((slot) =>
+    holdIdx.filter((j) => {
+      const d = model.inputs[j].delay;
+      return typeof d === 'string' && compiled.paramSlot.get(d) === slot;
+    }),
+  );
+  const anyJumpCondition = sens !== undefined && delayedHoldOfColumn.some((l) => l.length > 0);
+
+  // Results.
+  const states = Array.from({ length: n }, () => new Float64Array(M));
+  const outputs = Array.from({ length: nOut }, () => new Float64Array(M));
+  const sensOut = slots ? Array.from({ length: nOut }, () => new Float64Array(M * q)) : undefined;
+
+  // Work buffers, allocated once per simulation.
+  const u = new Float64Array(nIn);
+  const udot = new Float64Array(nIn);
+  const uS = new Float64Array(nIn);
+  const udotS = new Float64Array(nIn);
+  const zBuf = new Float64Array(N);
+  const dzBuf = new Float64Array(N);
+  const zSample = new Float64Array(N);
+  const yBuf = new Float64Array(nOut);
+  const dyBuf = new Float64Array(nOut * q);
+  const ret = new Array<number>(N).fill(0);
+
+  // Initial state at the start.
+  let z = new Float64Array(N);
+  if (sens) sens.initial(drive.experimentIndex, p, z);
+  else compiled.initial(drive.experimentIndex, p, z);
+  for (let i = 0; i < N; i++) {
+    if (!Number.isFinite(z[i])) {
+      throw new RunFailure(
+        `cannot simulate experiment ${drive.name}: the initial value of ${i < n ? `state ${model.states[i].name}` : 'a sensitivity'} is not finite (parameters ${formatParameters(compiled, p)})`,
+        { experiment: drive.name, time: drive.start, parameters: parameterRecord(compiled, p) },
+      );
+    }
+  }
+  const tol = tolerances(options.rtol, options.atol, z, n, p, sens ? slots! : []);
+
+  /** Outputs (and their sensitivities) at sample m from zSample. */
+  const recordSample = (m: number): void => {
+    const t = drive.time[m];
+    for (let j = 0; j < nIn; j++) tracks[j].fill(t, uS, udotS, j);
+    for (let i = 0; i < n; i++) states[i][m] = zSample[i];
+    if (sens) {
+      sens.outputs(t, zSample, uS, udotS, p, yBuf, dyBuf);
+      const base = m * q;
+      for (let j = 0; j < nOut; j++) {
+        outputs[j][m] = yBuf[j];
+        const col = sensOut![j];
+        for (let k = 0; k < q; k++) col[base + k] = dyBuf[j * q + k];
+      }
+    } else {
+      compiled.outputs(t, zSample, uS, p, yBuf);
+      for (let j = 0; j < nOut; j++) outputs[j][m] = yBuf[j];
+    }
+  };
+
+  const rhs = (t: number, y: number[]): number[] => {
+    stats.rhsEvaluations++;
+    for (let i = 0; i < N; i++) zBuf[i] = y[i];
+    for (let a = 0; a < linearIdx.length; a++) tracks[linearIdx[a]].fill(t, u, udot, linearIdx[a]);
+    if (sens) sens.rhs(t, zBuf, u, udot, p, dzBuf);
+    else compiled.rhs(t, zBuf, u, p, dzBuf);
+    let s = 0;
+    for (let i = 0; i < N; i++) {
+      const v = dzBuf[i];
+      ret[i] = v;
+      s += v;
+    }
+    // s - s is NaN exactly when some entry is NaN or infinite (or the sum overflows).
+    if (s - s !== 0) throw new NonFiniteState(t, Float64Array.from(zBuf), Float64Array.from(dzBuf));
+    return ret;
+  };
+
+  // Segment boundaries: start, every jump of a hold input, the last sample.
+  const tEnd = drive.time[M - 1];
+  const jumpSet = new Set<number>();
+  for (const j of holdIdx) for (const tau of tracks[j].jumpTimes(drive.start, tEnd)) jumpSet.add(tau);
+  const bounds = [drive.start, ...[...jumpSet].sort((a, b) => a - b), tEnd];
+
+  // Linear inputs that move: cap the step at two sample intervals so that no short feature of the
+  // input can fall between the points where the integrator looks at it.
+  const movingLinear = linearIdx.some((j) => {
+    const v = drive.inputs[j];
+    for (let i = 1; i < v.length; i++) if (v[i] !== v[0]) return true;
+    return false;
+  });
+  const meanInterval = M > 1 ? (tEnd - drive.time[0]) / (M - 1) : 0;
+
+  const solver = new Solver(N);
+  solver.denseOutput = true;
+  solver.relativeTolerance = tol.rtol;
+  solver.absoluteTolerance = tol.atol;
+
+  let m = 0; // next sample to record
+  const lastZ = new Float64Array(N);
+  let lastX = drive.start;
+  let stepsInSegment = 0;
+
+  const holdValueIn = (j: number, a: number, b: number): number => tracks[j].value(0.5 * (a + b));
+
+  try {
+    for (let s = 0; s + 1 < bounds.length; s++) {
+      const a = bounds[s];
+      const b = bounds[s + 1];
+      const lastSegment = s + 2 === bounds.length;
+      for (const j of holdIdx) {
+        u[j] = holdValueIn(j, a, b);
+        udot[j] = 0;
+      }
+      if (b <= a) {
+        // Degenerate (single sample at the start): nothing to integrate.
+        zSample.set(z);
+        while (m < M && drive.time[m] <= b) recordSample(m++);
+        continue;
+      }
+      stats.segments++;
+      let first = m;
+      let count = 0;
+      while (first + count < M && (drive.time[first + count] < b || (lastSegment && drive.time[first + count] <= b))) count++;
+      solver.maxSteps = options.maxSteps ?? defaultMaxSteps(count);
+      solver.maxStepSize = movingLinear && meanInterval > 0 ? Math.min(b - a, 2 * meanInterval) : b - a;
+      solver.initialStepSize = Math.min(1e-4, (b - a) / 2);
+      const end = first + count; // exclusive
+      lastX = a;
+      lastZ.set(z);
+      stepsInSegment = 0;
+      const observer = (nr: number, _xOld: number, x: number, y: number[], dense?: (c: number, x: number) => number): boolean | void => {
+        if (nr === 1 || !dense) {
+          while (m < end && drive.time[m] <= x) {
+            for (let i = 0; i < N; i++) zSample[i] = y[i];
+            recordSample(m++);
+          }
+          return;
+        }
+        stepsInSegment++;
+        while (m < end && drive.time[m] <= x) {
+          const t = drive.time[m];
+          for (let i = 0; i < N; i++) zSample[i] = dense(i, t);
+          recordSample(m++);
+        }
+        lastX = x;
+        for (let i = 0; i < N; i++) lastZ[i] = y[i];
+      };
+      const res = solver.solve(rhs, a, Array.from(z), b, observer);
+      stats.steps += res.nAccept;
+      stats.rejectedSteps += res.nReject;
+      if (res.outcome === Outcome.MaxStepsExceeded) {
+        const xs = lastZ.subarray(0, n);
+        for (const j of linearIdx) tracks[j].fill(lastX, u, udot, j);
+        const d = diagnoseStepLimit(compiled, lastX, Float64Array.from(xs), u, p, a, lastX, b - a, stepsInSegment);
+        throw new RunFailure(`cannot simulate experiment ${drive.name}: ${d.text} (parameters ${formatParameters(compiled, p)})`, {
+          experiment: drive.name,
+          time: lastX,
+          stiff: d.stiff,
+          fastestTimeConstant: d.fastest,
+          slowestTimeConstant: d.slowest,
+          parameters: parameterRecord(compiled, p),
+        });
+      }
+      z = Float64Array.from(res.y);
+      // Samples the last step did not reach by rounding (within a few ulps of b).
+      while (m < end) {
+        zSample.set(z);
+        recordSample(m++);
+      }
+      if (!lastSegment && anyJumpCondition) applyJumpCondition(b, bounds[s + 2] ?? b, a);
+    }
+  } catch (err) {
+    if (err instanceof NonFiniteState) {
+      const bad = Array.from(err.z.subarray(0, n)).findIndex((v) => !Number.isFinite(v));
+      const badRate = Array.from(err.dz.subarray(0, n)).findIndex((v) => !Number.isFinite(v));
+      const what =
+        bad >= 0 ? `state ${model.states[bad].name} became ${err.z[bad]}`
+        : badRate >= 0 ? `the derivative of state ${model.states[badRate].name} became ${err.dz[badRate]}`
+        : 'a sensitivity became non-finite';
+      // The step size itself may have turned NaN first: then name the last time reached.
+      const known = Number.isFinite(err.t);
+      const time = known ? err.t : lastX;
+      throw new RunFailure(
+        `cannot simulate experiment ${drive.name}: ${what} ${known ? 'at' : 'after'} t=${Number(time.toPrecision(6))} ${model.timeUnit} (parameters ${formatParameters(compiled, p)}); check the equations for division by zero or overflow at these values`,
+        { experiment: drive.name, time, parameters: parameterRecord(compiled, p) },
+      );
+    }
+    throw err;
+  }
+
+  function applyJumpCondition(tau: number, nextEnd: number, prevStart: number): void {
+    // Input values just after tau (the next segment's), and the hold values just before.
+    for (const j of linearIdx) tracks[j].fill(tau, uS, udotS, j);
+    for (const j of holdIdx) uS[j] = holdValueIn(j, tau, nextEnd);
+    const x = z.subarray(0, n);
+    const fPlus = new Float64Array(n);
+    const fMinus = new Float64Array(n);
+    compiled.rhs(tau, x, uS, p, fPlus);
+    for (let k = 0; k < q; k++) {
+      for (const j of delayedHoldOfColumn[k]) {
+        const before = holdValueIn(j, prevStart, tau);
+        const after = uS[j];
+        if (before === after) continue;
+        uS[j] = before;
+        compiled.rhs(tau, x, uS, p, fMinus);
+        uS[j] = after;
+        for (let i = 0; i < n; i++) z[n + i * q + k] += fMinus[i] - fPlus[i];
+      }
+    }
+  }
+
+  return {
+    experiment: drive.name,
+    time: drive.time,
+    states,
+    outputs,
+    sensitivities: slots ? { slots: [...slots], outputs: sensOut! } : undefined,
+    stats,
+  };
+}
