@@ -37,6 +37,8 @@ export interface ValidateOptions {
 export interface ValidateOutcome {
   result: ValidationResult;
   series: ResidualSeries[];
+  /** Noise level per output from the estimates (for the report, beside the RMSE). */
+  noise: Record<string, { sigma: number; estimated: boolean }>;
 }
 
 export function validateModel(options: ValidateOptions): ValidateOutcome {
@@ -145,7 +147,8 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
     parameters: used,
     warnings,
   };
-  return { result, series };
+  const noise = Object.fromEntries(Object.entries(estimates.noise).map(([k, v]) => [k, { sigma: v.sigma, estimated: v.estimated }]));
+  return { result, series, noise };
 }
 
 /**

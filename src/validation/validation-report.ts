@@ -23,7 +23,8 @@ export function writeValidationFolder(
   result: ValidationResult,
   series: readonly ResidualSeries[],
   outputs: readonly string[],
-  renderHtml?: (result: ValidationResult, series: readonly ResidualSeries[]) => string,
+  /** report.html, already rendered (rendering is asynchronous); omitted: no report. */
+  reportHtml?: string,
 ): string {
   const target = path.resolve(folder);
   assertReplaceable(target);
@@ -31,7 +32,7 @@ export function writeValidationFolder(
     'validation.json': () => `${JSON.stringify(result, jsonNumbers, 2)}\n`,
     'residuals.csv': () => renderResidualsCsv(series, outputs),
   };
-  if (renderHtml) files['report.html'] = () => renderHtml(result, series);
+  if (reportHtml !== undefined) files['report.html'] = reportHtml;
   writeFolderAtomic(target, files, () => true);
   return target;
 }

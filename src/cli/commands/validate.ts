@@ -4,6 +4,7 @@ import path from 'node:path';
 import { parseOverrides } from '../../model/load/index.js';
 import { defaultValidationFolder, validationText, writeValidationFolder } from '../../validation/validation-report.js';
 import { validateModel } from '../../validation/validate-model.js';
+import { renderValidationReport } from '../../validation/validation-html.js';
 import type { CommandContext } from '../io.js';
 
 interface ValidateCliOptions {
@@ -26,7 +27,7 @@ export function register(program: Command, ctx: CommandContext): void {
     .requiredOption('--params <file>', 'estimates.yaml written by `rigcal fit`')
     .option('-e, --experiment <name>', 'an experiment of the model file, of any role (repeatable); default: every validation experiment', collect)
     .option('--data <file>', 'a new log (CSV) read with the model\'s columns; time column and unit as in the model\'s first experiment')
-    .option('-o, --output <dir>', 'folder for validation.json and residuals.csv (default ./<model name>-validate/)')
+    .option('-o, --output <dir>', 'folder for validation.json, residuals.csv and report.html (default ./<model name>-validate/)')
     .option('--set <name=value>', 'a parameter value for this run (wins over the estimates), e.g. a per-experiment initial value of a new log', collect)
     .option('--force', 'validate even though the estimates were made for another version of the model file')
     .option('--json', 'print validation.json to standard output instead of the table')
@@ -38,7 +39,7 @@ Example:
   rigcal validate models/flywheel.yaml --params flywheel-rig-fit/estimates.yaml --data logs/friday.csv`,
     )
     .action(
-      ctx.action((modelFile: string, opts: ValidateCliOptions) => {
+      ctx.action(async (modelFile: string, opts: ValidateCliOptions) => {
         const outcome = validateModel({
           modelFile,
           estimatesFile: opts.params,
@@ -49,7 +50,9 @@ Example:
           cwd: ctx.io.cwd,
         });
         const folder = opts.output ? path.resolve(ctx.io.cwd, opts.output) : defaultValidationFolder(ctx.io.cwd, outcome.result.model.name);
-        const written = writeValidationFolder(folder, outcome.result, outcome.series, outcome.result.outputs.map((o) => o.output).filter((o, i, a) => a.indexOf(o) === i));
+        const report = await renderValidationReport(outcome.result, outcome.series, outcome.noise);
+        const outputs = outcome.result.outputs.map((o) => o.output).filter((o, i, a) => a.indexOf(o) === i);
+        const written = writeValidationFolder(folder, outcome.result, outcome.series, outputs, report);
         if (opts.json) ctx.io.stdout(`${JSON.stringify(outcome.result, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
         else ctx.io.stdout(`${validationText(outcome.result)}results: ${path.relative(ctx.io.cwd, written) || '.'}\n`);
         return 0;

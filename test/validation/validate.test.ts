@@ -1,0 +1,110 @@
+/**
+ * `validate` on the synthetic spring-mass-damper rig (synthetic-rig.ts): a calibrated model scored on
+ * data it was not fitted to. For the right model the held-out residuals are the measurement noise, so
+ * the RMSE must come out near the noise level we added (0.5 mm) and the residuals white; the model
+ * without damper must score worse.
+ */
+import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { runCli } from '../../src/cli/run.js';
+import { fitModel } from '../../src/estimation/fit.js';
+import { loadModel } from '../../src/model/load/index.js';
+import { writeResults } from '../../src/reports/write-results.js';
+import type { ValidationResult } from '../../src/validation/validation-result.js';
+import { NOISE_MM, modelText, writeRigData } from '../comparison/synthetic-rig.js';
+
+async function cli(args: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
+  let out = '';
+  let err = '';
+  const code = await runCli(args, { stdout: (s) => (out += s), stderr: (s) => (err += s), stderrIsTTY: false, cwd });
+  return { code, out, err };
+}
+
+describe('validate on a synthetic rig', () => {
+  let dir: string;
+
+  beforeAll(() => {
+    dir = writeRigData();
+    for (const [file, damper] of [['right.yaml', true], ['no-damper.yaml', false]] as const) {
+      writeFileSync(path.join(dir, file), modelText({ name: damper ? 'with-damper' : 'no-damper', damper }));
+      const outcome = fitModel(loadModel(path.join(dir, file)));
+      writeResults(path.join(dir, `${file}-fit`), outcome, { outputs: ['x'] });
+    }
+    // A new log: a second record of the held-out chirp under another seed's noise, saved under a new name.
+    writeRigData(777, path.join(dir, 'friday'));
+  });
+
+  it('scores the validation experiment by default, with RMSE near the noise level and white residuals', async () => {
+    const r = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '--json', '-o', 'val-right'], dir);
+    expect(r.code, r.err).toBe(0);
+    const result = JSON.parse(r.out) as ValidationResult;
+    expect(result.outputs).toHaveLength(1);
+    const o = result.outputs[0];
+    expect(o).toMatchObject({ experiment: 'held-out', output: 'x', unit: 'm', samples: 401 });
+    // The residual of a right model on new data is the added noise (sigma 0.5 mm): within 15 %
+    // (the sample RMSE of 401 normal deviates lies within about +-7 % of sigma at 95 %; estimation
+    // error adds a little).
+    expect(o.rmse).toBeGreaterThan(0.85 * NOISE_MM * 1e-3);
+    expect(o.rmse).toBeLessThan(1.15 * NOISE_MM * 1e-3);
+    expect(o.nrmse).toBeCloseTo(Math.sqrt(1 - o.r2), 10);
+    expect(o.whiteness?.white).toBe(true);
+    // The folder holds the scores and the residuals, nothing half-written.
+    expect(readdirSync(path.join(dir, 'val-right')).sort()).toEqual(['report.html', 'residuals.csv', 'validation.json']);
+    const saved = JSON.parse(readFileSync(path.join(dir, 'val-right', 'validation.json'), 'utf8')) as ValidationResult;
+    expect(saved.outputs[0].rmse).toBe(o.rmse);
+    // The report: the reporter's figures for the validation experiment, self-contained.
+    const page = readFileSync(path.join(dir, 'val-right', 'report.html'), 'utf8');
+    expect(page).toContain('<title>with-damper: validation report</title>');
+    expect(page).toContain('Experiment held-out');
+    expect((page.match(/<svg/g) ?? []).length).toBeGreaterThanOrEqual(3);
+    expect(page).toMatch(/safety-relevant/);
+    expect(page).not.toMatch(/(src|href)="https?:/);
+  });
+
+  it('prints a table with units and a verdict', async () => {
+    const r = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '-o', 'val-table'], dir);
+    expect(r.code, r.err).toBe(0);
+    expect(r.out).toMatch(/held-out\s+x\s+401\s+[0-9.e-]+ m\s+/);
+    expect(r.out).toMatch(/held-out\/x: residuals are white/);
+  });
+
+  it('scores the model without damper worse, with correlated residuals', async () => {
+    const right = JSON.parse((await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '--json', '-o', 'v1'], dir)).out) as ValidationResult;
+    const r = await cli(['validate', 'no-damper.yaml', '--params', 'no-damper.yaml-fit/estimates.yaml', '--json', '-o', 'v2'], dir);
+    expect(r.code, r.err).toBe(0);
+    const wrong = JSON.parse(r.out) as ValidationResult;
+    expect(wrong.outputs[0].nrmse).toBeGreaterThan(2 * right.outputs[0].nrmse);
+    expect(wrong.outputs[0].whiteness?.white).toBe(false);
+  });
+
+  it('scores a new log given with --data', async () => {
+    const r = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '--data', 'friday/held-out.csv', '--json', '-o', 'val-new'], dir);
+    expect(r.code, r.err).toBe(0);
+    const result = JSON.parse(r.out) as ValidationResult;
+    expect(result.data[0]).toMatchObject({ experiment: 'held-out-2', source: 'new log', rows: 401 });
+    expect(result.outputs[0].rmse).toBeLessThan(1.15 * NOISE_MM * 1e-3);
+    // x0 is per experiment: the new log has no estimate of its own and the start value is said.
+    expect(result.warnings.join('\n')).toMatch(/x0 is estimated per experiment.*start value 0 m/);
+  });
+
+  it('scores an experiment of any role with -e, using its own per-experiment estimate', async () => {
+    const r = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '-e', 'bump', '--json', '-o', 'val-bump'], dir);
+    expect(r.code, r.err).toBe(0);
+    const result = JSON.parse(r.out) as ValidationResult;
+    expect(result.data[0]).toMatchObject({ experiment: 'bump', source: 'fit' });
+    expect(result.warnings.join('\n')).not.toMatch(/x0/);
+    expect(result.parameters.m).toBe(1.25); // the experiment's `set`, not overridden by the estimates
+    expect(result.outputs[0].rmse).toBeLessThan(1.15 * NOISE_MM * 1e-3);
+  });
+
+  it('names a wrong experiment and refuses a foreign output folder', async () => {
+    const r = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '-e', 'bumpp'], dir);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/no experiment "bumpp".*bump/s);
+    const f = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '-o', 'friday'], dir);
+    expect(f.code).toBe(2);
+    expect(f.err).toMatch(/not a validation folder/);
+    expect(existsSync(path.join(dir, 'friday', 'validation.json'))).toBe(false);
+  });
+});
