@@ -133,6 +133,11 @@ export interface Model {
   outputs: OutputSpec[];
   experiments: ExperimentSpec[];
   units: 'check' | 'off';
+  /**
+   * What the dimensional check did: 'checked'; 'off' (units: off); 'no-units' (no symbol carries a
+   * unit, so there was nothing to check). `check` prints it.
+   */
+  unitCheck?: 'checked' | 'off' | 'no-units';
   /** Values given with `--set` (already applied to `parameters`/`experiments`), for provenance. */
   overrides: Record<string, number>;
 }

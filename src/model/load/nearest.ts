@@ -1,0 +1,63 @@
+/**
+ * "Did you mean": the nearest known words to a misspelt one, so that a typo in a model file is
+ * answered with the word the user meant, never silently ignored.
+ */
+
+/**
+ * Edit distance with adjacent transpositions counted as one edit (optimal string alignment), so
+ * that `fxied` is one step from `fixed`. Case differences count as edits: names are case-sensitive.
+ */
+export function editDistance(a: string, b: string): number {
+  const n = a.length;
+  const m = b.length;
+  if (!n) return m;
+  if (!m) return n;
+  let prev2 = new Array<number>(m + 1).fill(0);
+  let prev = Array.from({ length: m + 1 }, (_, j) => j);
+  let cur = new Array<number>(m + 1).fill(0);
+  for (let i = 1; i <= n; i++) {
+    cur[0] = i;
+    for (let j = 1; j <= m; j++) {
+      const cost = a[i - 1] === b[j - 1] ? 0 : 1;
+      let d = Math.min(prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + cost);
+      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1]) d = Math.min(d, prev2[j - 2] + 1);
+      cur[j] = d;
+    }
+    [prev2, prev, cur] = [prev, cur, prev2];
+  }
+  return prev[m];
+}
+
+/**
+ * Up to `limit` candidates close to `word`, nearest first. "Close" allows about one edit in three
+ * characters (at least two), or a case-insensitive match, or one being a prefix of the other.
+ */
+export function nearest(word: string, candidates: Iterable<string>, limit = 3): string[] {
+  const lower = word.toLowerCase();
+  const scored: { name: string; d: number }[] = [];
+  for (const name of new Set(candidates)) {
+    if (name === word) continue;
+    const nl = name.toLowerCase();
+    let d = editDistance(word, name);
+    if (nl === lower) d = 0.5;
+    else if (lower.length >= 3 && (nl.startsWith(lower) || lower.startsWith(nl))) d = Math.min(d, 1.5);
+    const allowed = Math.max(2, Math.ceil(Math.max(word.length, name.length) / 3));
+    if (d <= allowed) scored.push({ name, d });
+  }
+  scored.sort((x, y) => x.d - y.d || x.name.localeCompare(y.name));
+  return scored.slice(0, limit).map((s) => s.name);
+}
+
+/** Words for a "did you mean" hint: ` (did you mean a or b?)`, or a list of what exists. */
+export function suggestion(word: string, candidates: readonly string[], kind = 'names'): string {
+  const near = nearest(word, candidates);
+  if (near.length) return `did you mean ${orList(near.map((n) => `"${n}"`))}?`;
+  if (!candidates.length) return `there are no ${kind} to choose from`;
+  const shown = candidates.slice(0, 12).map((n) => `"${n}"`);
+  return `known ${kind}: ${shown.join(', ')}${candidates.length > shown.length ? ', ...' : ''}`;
+}
+
+export function orList(items: readonly string[]): string {
+  if (items.length <= 1) return items.join('');
+  return `${items.slice(0, -1).join(', ')} or ${items[items.length - 1]}`;
+}
