@@ -45,6 +45,8 @@ export interface UncertaintyOutput {
 }
 export interface IdentifiabilityInput {
   jacobian: Matrix;
+  /** The optimum in the optimiser's coordinates. */
+  theta: number[];
   names: string[];
   scales: ('log' | 'linear')[];
   correlation: (number | null)[][];
@@ -77,9 +79,6 @@ export interface FitDeps {
   /** Clock in seconds (injected so that tests can be deterministic). */
   now?(): number;
 }
-
-/** |correlation| above this is worth a warning even when the identifiability check passes. */
-const HIGH_CORRELATION = 0.95;
 
 /** Read-only summary of the solver run(s) kept for the result. */
 interface SolveSummary {
@@ -183,7 +182,7 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
     atBound: run.atBound,
   });
   warnings.push(...unc.warnings);
-  const ident = deps.identifiability({ jacobian: run.jacobian, names: entries.map((e) => e.name), scales, correlation: unc.correlation });
+  const ident = deps.identifiability({ jacobian: run.jacobian, theta: run.theta.slice(), names: entries.map((e) => e.name), scales, correlation: unc.correlation });
 
   // 4. Parameters: model order, per-experiment copies in place of their parameter.
   const parameters: ParameterResult[] = [];
@@ -223,7 +222,6 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   }
   for (const p of ident.problems) warnings.push(p.message);
   for (const w of ident.warnings) if (!warnings.includes(w)) warnings.push(w);
-  addCorrelationWarnings(entries.map((e) => e.name), unc.correlation, warnings);
 
   // 5. Statistics with the final weighting.
   const sums = perOutputSums(problem, run.residuals);
@@ -334,7 +332,7 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
       overrides: { ...model.overrides },
     },
   };
-  if (summary.rounds > 1) result.message += ` (noise levels settled after ${summary.rounds} fits)`;
+  if (summary.rounds > 1) result.message += `; noise levels settled after ${summary.rounds} fits`;
   result.wallSeconds = now() - t0;
   return { result, residuals, values: valueByName };
 }
@@ -368,19 +366,6 @@ function iterateNoise(
     rounds++;
     if (again.status === 'failed') return { run, iterations, rounds, sigmaConverged: false };
     run = again;
-  }
-}
-
-function addCorrelationWarnings(names: string[], corr: (number | null)[][], warnings: string[]): void {
-  for (let i = 0; i < names.length; i++) {
-    for (let j = i + 1; j < names.length; j++) {
-      const c = corr[i]?.[j];
-      if (c === null || c === undefined || Math.abs(c) <= HIGH_CORRELATION) continue;
-      const already = warnings.some((w) => w.includes(names[i]) && w.includes(names[j]));
-      if (!already) {
-        warnings.push(`${names[i]} and ${names[j]} are strongly correlated (${c.toFixed(3)}): the data hardly tell them apart`);
-      }
-    }
   }
 }
 

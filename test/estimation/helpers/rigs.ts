@@ -79,7 +79,7 @@ export function writeSpringRig(dir: string, seed = 5): string {
   const wd = wn * Math.sqrt(1 - zeta * zeta);
   const noise = normalGenerator(seed);
   const rows = ['t,x'];
-  for (let i = 0; i <= 400; i++) {
+  for (let i = 0; i <= 200; i++) {
     const t = i * 0.005;
     // underdamped free response from x0 at rest (any vibration handbook)
     const x = x0 * Math.exp(-zeta * wn * t) * (Math.cos(wd * t) + ((zeta * wn) / wd) * Math.sin(wd * t));
@@ -93,8 +93,8 @@ states:
   x: { unit: m, initial: x0 }
   v: { unit: m/s, initial: 0 }
 parameters:
-  k:    { free: [10, 1e5], start: 600, unit: N/m }
-  m:    { free: [0.1, 100], start: 2, unit: kg }
+  k:    { free: [10, 1e5], start: 1500, unit: N/m }
+  m:    { free: [0.1, 100], start: 1.6, unit: kg }
   zeta: { fixed: 0.05 }
   x0:   { fixed: 0.01, unit: m }
 equations:
