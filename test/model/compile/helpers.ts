@@ -123,3 +123,30 @@ export function linearModel() {
     outputs: { pos2: 'x2' },
   });
 }
+
+/**
+ * Classical fourth-order Runge-Kutta with a fixed step (any numerical analysis text); global error
+ * O(h^4). Only for checking sensitivities against closed forms in tests.
+ */
+export function rk4(f: (t: number, z: Float64Array, dz: Float64Array) => void, z0: Float64Array, t0: number, t1: number, steps: number): Float64Array {
+  const n = z0.length;
+  const z = Float64Array.from(z0);
+  const k1 = new Float64Array(n);
+  const k2 = new Float64Array(n);
+  const k3 = new Float64Array(n);
+  const k4 = new Float64Array(n);
+  const tmp = new Float64Array(n);
+  const h = (t1 - t0) / steps;
+  for (let s = 0; s < steps; s++) {
+    const t = t0 + s * h;
+    f(t, z, k1);
+    for (let i = 0; i < n; i++) tmp[i] = z[i]! + (h / 2) * k1[i]!;
+    f(t + h / 2, tmp, k2);
+    for (let i = 0; i < n; i++) tmp[i] = z[i]! + (h / 2) * k2[i]!;
+    f(t + h / 2, tmp, k3);
+    for (let i = 0; i < n; i++) tmp[i] = z[i]! + h * k3[i]!;
+    f(t + h, tmp, k4);
+    for (let i = 0; i < n; i++) z[i] = z[i]! + (h / 6) * (k1[i]! + 2 * k2[i]! + 2 * k3[i]! + k4[i]!);
+  }
+  return z;
+}
