@@ -99,7 +99,7 @@ function guardNodes(ctx: LoadContext): void {
   let nodes = 0;
   let aliases = 0;
   visit(ctx.doc, (_key, node) => {
-    if (isPair(node)) return undefined;
+    if (!node || isPair(node)) return undefined;
     nodes++;
     if (nodes > LIMITS.yamlNodes) {
       ctx.problems.add({ file: ctx.file }, `the model file has more than ${LIMITS.yamlNodes} YAML values`, 'a model file holds equations and parameters only; keep data in CSV files');
