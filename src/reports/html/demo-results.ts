@@ -40,7 +40,8 @@ function experiment(name: string, role: 'fit' | 'validation', n: number, seed: n
   const currentMeas = new Float64Array(n);
   const K = 8.2; // rad/s per V
   const tau = 0.12; // s
-  const period = Math.max(50, Math.floor(n / 6));
+  // Voltage steps every 0.8 s (a square wave of 0.625 Hz: odd harmonics 0.625, 1.875, 3.125, 4.375 Hz).
+  const period = 800;
   let w = 0;
   for (let i = 0; i < n; i++) {
     const t = i * dt;
@@ -50,8 +51,9 @@ function experiment(name: string, role: 'fit' | 'validation', n: number, seed: n
     speedSim[i] = w;
     speedMeas[i] = w + 0.4 * g();
     currentSim[i] = 0.05 * w + 0.1 * (K * voltage[i] - w);
-    // An unmodelled 3 Hz ripple: the current's residuals will not be white.
-    currentMeas[i] = currentSim[i] + 0.05 * Math.sin(2 * Math.PI * 3 * t) + 0.02 * g();
+    // An unmodelled 3.7 Hz ripple, away from the input's harmonics: the current's residuals will
+    // not be white, yet they do not follow the input.
+    currentMeas[i] = currentSim[i] + 0.05 * Math.sin(2 * Math.PI * 3.7 * t) + 0.02 * g();
   }
   for (let i = 7; i < n; i += 97) speedMeas[i] = NaN; // a few dropped samples
   return {
