@@ -2,7 +2,6 @@
  * Adapters from the pipeline's needs (fit-core.ts `FitDeps`) to the uncertainty, identifiability and
  * multistart modules, which speak the generic solver's language.
  */
-import { RunFailure } from '../errors.js';
 import { computeUncertainty } from './uncertainty.js';
 import { analyseIdentifiability } from './identifiability.js';
 import type { IdentifiabilityInput, IdentifiabilityOutput, UncertaintyInput, UncertaintyOutput } from './fit-core.js';
@@ -37,12 +36,4 @@ export function identifiabilityOf(input: IdentifiabilityInput): IdentifiabilityO
     correlation: input.correlation,
   });
   return { conditionNumber: r.conditionNumber, singularValues: r.singularValues, problems: r.problems, warnings: r.warnings };
-}
-
-// Placeholder until the multistart module lands: --starts > 1 is refused in words.
-export function startPoints(): number[][] {
-  throw new RunFailure('several starts (--starts) are not available in this build yet');
-}
-export function distinctOptima(runs: { cost: number; theta: number[] }[]): number {
-  return runs.length;
 }

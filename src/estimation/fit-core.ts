@@ -18,6 +18,7 @@ import { aicc, bic, gaussianLogLikelihood } from './information-criteria.js';
 import { initialNoise, largestRelativeChange, MAX_SIGMA_ROUNDS, SIGMA_TOLERANCE, updatedSigmas } from './noise.js';
 import { buildProblem, perOutputSums, type EstimationProblem, type SimulatorFns } from './problem.js';
 import type { LeastSquaresProblem, SolverOptions, SolverResult } from './solver/types.js';
+import type { MultistartEntry, MultistartOptions, MultistartOutcome } from './multistart.js';
 
 export interface UncertaintyInput {
   /** Weighted Jacobian at the optimum, in the optimiser's coordinates. */
@@ -71,10 +72,8 @@ export interface FitDeps {
   solve(problem: LeastSquaresProblem, start: readonly number[], options: SolverOptions): SolverResult;
   uncertainty(input: UncertaintyInput): UncertaintyOutput;
   identifiability(input: IdentifiabilityInput): IdentifiabilityOutput;
-  /** `count` starts spread over [lower, upper] (seeded); the first may be the model's start. */
-  starts(count: number, seed: number, lower: number[], upper: number[], start: number[]): number[][];
-  /** Number of distinct optima among the runs (rule documented where implemented). */
-  distinctOptima(runs: { cost: number; theta: number[] }[]): number;
+  /** Several seeded starts spread over the bounds, the best kept (multistart.ts). */
+  multistart(entries: readonly MultistartEntry[], options: MultistartOptions, solveFrom: (start: number[], index: number) => SolverResult): MultistartOutcome<SolverResult>;
   diagnostics?(series: ResidualSeries, inputs: { name: string; values: ArrayLike<number> }[], timeUnit: string): DiagnosticsOutput;
   /** Clock in seconds (injected so that tests can be deterministic). */
   now?(): number;
@@ -131,24 +130,23 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   const requested = Math.max(1, Math.floor(options.starts ?? 1));
   if (requested > 1) {
     const seed = options.seed ?? 1;
-    const points = deps.starts(requested, seed, lower, upper, startTheta);
-    const runs: SolverResult[] = [];
-    points.forEach((pt, i) => {
-      const r = solveFrom(pt, i + 1);
-      totalIterations += r.iterations;
-      runs.push(r);
-    });
-    const ok = runs.filter((r) => r.status !== 'failed' && Number.isFinite(r.cost));
-    if (ok.length === 0) throw startFailure(problem, runs[0]);
-    best = ok.reduce((a, b) => (b.cost < a.cost ? b : a));
-    const costs = ok.map((r) => r.cost).sort((a, b) => a - b);
-    startsInfo = {
-      requested,
-      seed,
-      distinctOptima: deps.distinctOptima(ok.map((r) => ({ cost: r.cost, theta: r.theta }))),
-      bestCosts: costs.slice(0, 10),
-    };
-    if (ok.length < runs.length) warnings.push(`${runs.length - ok.length} of ${runs.length} starts could not be simulated or failed; the best of the others is kept`);
+    const ms = deps.multistart(
+      problem.entries.map((e, k) => ({ scale: e.scale, lower: e.lower, upper: e.upper, start: startTheta[k] })),
+      { starts: requested, seed },
+      (pt, i) => {
+        const r = solveFrom(pt, i + 1);
+        totalIterations += r.iterations;
+        return r;
+      },
+    );
+    const failed = ms.results.filter((r) => r.status === 'failed' || !Number.isFinite(r.cost)).length;
+    if (failed === ms.results.length) throw startFailure(problem, ms.results[0]);
+    best = ms.best;
+    startsInfo = { requested, seed, distinctOptima: ms.distinctOptima, bestCosts: ms.bestCosts };
+    if (failed) warnings.push(`${failed} of ${ms.results.length} starts could not be simulated or failed; the best of the others is kept`);
+    if (ms.distinctOptima > 1) {
+      warnings.push(`the ${requested} starts ended in ${ms.distinctOptima} different optima; the best (lowest cost) is kept, but the cost surface has several minima`);
+    }
   } else {
     best = solveFrom(startTheta, 1);
     totalIterations += best.iterations;

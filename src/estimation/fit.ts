@@ -13,7 +13,8 @@ import { residualDiagnostics } from '../diagnostics/index.js';
 import type { FitOptions, FitOutcome } from './fit-api.js';
 import { runFit, type FitDeps } from './fit-core.js';
 import { solveLeastSquares } from './solver/index.js';
-import { distinctOptima, identifiabilityOf, startPoints, uncertaintyOf } from './fit-adapters.js';
+import { identifiabilityOf, uncertaintyOf } from './fit-adapters.js';
+import { runMultistart } from './multistart.js';
 
 /** Read the log of every experiment; throws one UserError listing the problems of all of them. */
 export function loadAllData(model: Model): ExperimentData[] {
@@ -37,8 +38,7 @@ export function defaultFitDeps(): FitDeps {
     solve: (problem, start, options) => solveLeastSquares(problem, start, options),
     uncertainty: uncertaintyOf,
     identifiability: identifiabilityOf,
-    starts: startPoints,
-    distinctOptima,
+    multistart: runMultistart,
     diagnostics: (series, inputs, timeUnit) => residualDiagnostics(series, inputs, { timeUnit }),
   };
 }

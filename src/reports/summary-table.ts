@@ -4,7 +4,11 @@
  */
 import type { FitResult, ParameterResult } from '../estimation/fit-result.js';
 
-/** Four significant digits: enough to read, the full values are in the results folder. */
+/**
+ * Rounded for reading (the full values are in the results folder): estimates and intervals with six
+ * significant digits so that a narrow interval stays distinguishable from its estimate, the rest
+ * with four.
+ */
 export function formatNumber(x: number | null | undefined, digits = 4): string {
   if (x === null || x === undefined || Number.isNaN(x)) return '-';
   if (!Number.isFinite(x)) return x > 0 ? 'inf' : '-inf';
@@ -32,10 +36,10 @@ function flags(p: ParameterResult): string {
 export function renderParameterTable(fit: FitResult): string {
   const rows = fit.parameters.map((p) => [
     p.name,
-    formatNumber(p.estimate),
+    formatNumber(p.estimate, 6),
     p.unit || '-',
     p.status === 'fixed' ? '' : formatNumber(p.stdError),
-    p.status === 'fixed' ? '' : p.ci95 ? `[${formatNumber(p.ci95[0])}, ${formatNumber(p.ci95[1])}]` : '-',
+    p.status === 'fixed' ? '' : p.ci95 ? `[${formatNumber(p.ci95[0], 6)}, ${formatNumber(p.ci95[1], 6)}]` : '-',
     flags(p),
   ]);
   return table(['parameter', 'estimate', 'unit', 'std. error', '95 % interval', 'flags'], rows);

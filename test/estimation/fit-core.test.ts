@@ -7,6 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { RunFailure } from '../../src/errors.js';
 import { runFit, type FitDeps, type UncertaintyInput } from '../../src/estimation/fit-core.js';
 import { solveLeastSquares } from '../../src/estimation/solver/index.js';
+import { runMultistart } from '../../src/estimation/multistart.js';
 import type { ParameterSpec } from '../../src/model/types.js';
 import { decayCompiled, decayData, decayModel, decaySimulator } from './helpers/decay-rig.js';
 import { normalGenerator } from './helpers/rng.js';
@@ -28,8 +29,7 @@ function deps(record: UncertaintyInput[] = []): FitDeps {
       return { stdError: input.values.map(() => 0.01), ci95: input.values.map((v) => [v - 0.02, v + 0.02] as [number, number]), correlation: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))), warnings };
     },
     identifiability: () => ({ conditionNumber: 1, singularValues: [1], problems: [], warnings: [] }),
-    starts: (count, _seed, lower, upper) => Array.from({ length: count }, (_, i) => lower.map((l, k) => l + ((i + 0.5) / count) * (upper[k] - l))),
-    distinctOptima: (runs) => new Set(runs.map((r) => r.cost.toPrecision(6))).size,
+    multistart: runMultistart,
   };
 }
 

@@ -1,15 +1,89 @@
-/** The `fit` command (not built yet: this placeholder only registers the name). */
+/**
+ * `rigcal fit MODEL`: estimates the free parameters from the model's fit experiments, scores the
+ * validation experiments, writes the results folder and prints the summary. Progress goes to
+ * standard error only when it is a terminal; standard output carries the summary (or fit.json with
+ * --json) and nothing else.
+ */
 import type { Command } from 'commander';
-import { RunFailure } from '../../errors.js';
+import { resolve } from 'node:path';
+import { UserError } from '../../errors.js';
+import { fitModel } from '../../estimation/fit.js';
+import type { FitProgress } from '../../estimation/fit-api.js';
+import { loadModel, parseOverrides } from '../../model/load/index.js';
+import { renderFitJson } from '../../reports/fit-json.js';
+import { renderFitSummary } from '../../reports/summary-table.js';
+import { defaultResultsFolder, assertReplaceable, reportRenderer, writeResults } from '../../reports/write-results.js';
 import type { CommandContext } from '../io.js';
+
+interface FitCliOptions {
+  output?: string;
+  starts?: string;
+  seed?: string;
+  maxIterations?: string;
+  json?: boolean;
+  quiet?: boolean;
+  set: string[];
+}
+
+function positiveInteger(text: string | undefined, option: string, min: number): number | undefined {
+  if (text === undefined) return undefined;
+  const n = Number(text);
+  if (!Number.isInteger(n) || n < min) {
+    throw new UserError({ where: { key: option }, what: `${option} takes a whole number of at least ${min}, got "${text}"`, fix: `e.g. ${option} ${Math.max(min, 8)}` });
+  }
+  return n;
+}
+
+function collect(value: string, previous: string[]): string[] {
+  return [...previous, value];
+}
 
 export function register(program: Command, ctx: CommandContext): void {
   program
     .command('fit')
-    .description('(not available yet)')
-    .allowUnknownOption()
-    .argument('[args...]')
-    .action(ctx.action(() => {
-      throw new RunFailure('the fit command is not available in this build');
-    }));
+    .summary('estimate the free parameters from the fit experiments and write a results folder')
+    .description(
+      'Estimates the free parameters of MODEL from all experiments with role `fit` (bounded Levenberg-Marquardt with\n' +
+        'sensitivities), scores the `validation` experiments at the estimates, writes the results folder\n' +
+        '(estimates.yaml, fit.json, residuals.csv, report.html) and prints a summary table.',
+    )
+    .argument('<model>', 'the model file (YAML)')
+    .option('-o, --output <dir>', 'results folder (default ./<model name>-fit/)')
+    .option('--starts <n>', 'number of starts spread over the bounds; the best is kept')
+    .option('--seed <s>', 'seed of the spread of starts (reproducible)')
+    .option('--max-iterations <n>', 'limit on solver iterations per fit')
+    .option('--json', 'print fit.json to standard output instead of the summary')
+    .option('--quiet', 'no progress on standard error')
+    .option('--set <name=value>', 'override a parameter value (its unit); name@experiment=value for one experiment', collect, [])
+    .addHelpText('after', '\nExample:\n  rigcal fit models/flywheel.yaml --starts 8 --seed 1 -o flywheel-fit\n')
+    .action(
+      ctx.action(async (modelFile: string, opts: FitCliOptions) => {
+        const io = ctx.io;
+        const starts = positiveInteger(opts.starts, '--starts', 1);
+        const seed = positiveInteger(opts.seed, '--seed', 0);
+        const maxIterations = positiveInteger(opts.maxIterations, '--max-iterations', 1);
+        const overrides = parseOverrides(opts.set ?? []);
+        const model = loadModel(resolve(io.cwd, modelFile), { overrides });
+        // Provenance names the model file as the user gave it, not as resolved here.
+        model.fileAsGiven = modelFile;
+        const folder = opts.output ? resolve(io.cwd, opts.output) : defaultResultsFolder(io.cwd, model.name);
+        // Refuse a foreign folder before spending time on the fit.
+        assertReplaceable(folder);
+        const showProgress = io.stderrIsTTY && !opts.quiet;
+        let lastLine = 0;
+        const onProgress = showProgress
+          ? (p: FitProgress) => {
+              const line = `start ${p.start}  iteration ${p.iteration}  cost ${p.cost.toPrecision(6)}  step ${p.step.toPrecision(2)}`;
+              io.stderr(`\r${line.padEnd(lastLine)}`);
+              lastLine = line.length;
+            }
+          : undefined;
+        const outcome = fitModel(model, { starts, seed, maxIterations, onProgress });
+        if (showProgress && lastLine) io.stderr('\n');
+        const written = await writeResults(folder, outcome, { outputs: model.outputs.map((o) => o.name), renderHtml: reportRenderer });
+        if (opts.json) io.stdout(renderFitJson(outcome.result));
+        else io.stdout(renderFitSummary(outcome.result, written));
+        return outcome.result.status === 'failed' ? 1 : 0;
+      }),
+    );
 }
