@@ -29,7 +29,8 @@ export interface RankOutcome extends RankResult {
 
 export function rankModels(files: readonly string[], options: RankOptions = {}): RankOutcome {
   const cwd = options.cwd ?? process.cwd();
-  const models = files.map((f) => loadModel(path.resolve(cwd, f)));
+  // Messages name each file as the user typed it.
+  const models = files.map((f) => ({ ...loadModel(path.resolve(cwd, f)), fileAsGiven: f }));
   checkSameData(models);
   const names = uniqueNames(models, files);
   const candidates: CandidateFit[] = [];

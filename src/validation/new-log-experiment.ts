@@ -6,11 +6,16 @@
  * Per-experiment column renames (`columns`), windows, `set` and `initial` of other experiments do not
  * apply to the new log.
  */
+import { existsSync, statSync } from 'node:fs';
 import path from 'node:path';
+import { UserError } from '../errors.js';
 import type { ExperimentSpec, Model } from '../model/types.js';
 
 export function withNewLog(model: Model, dataFile: string, cwd: string): { model: Model; index: number } {
   const file = path.resolve(cwd, dataFile);
+  if (!existsSync(file) || !statSync(file).isFile()) {
+    throw new UserError({ where: { file: dataFile }, what: 'no such data file', fix: 'give the path of a CSV log, relative to the current folder' });
+  }
   const first = model.experiments[0];
   const base = path.basename(dataFile).replace(/\.[^.]*$/, '') || 'new-log';
   let name = base;
