@@ -13,7 +13,7 @@
  * side with the input's old value and f+ with its new one, both at x(tau). This is exact for the
  * sample times (a sample exactly at a jump is a set of measure zero and takes S+).
  */
-import { Outcome, Solver } from 'odex';
+import { Outcome, Solver } from './vendor/odex.js';
 import { RunFailure } from '../errors.js';
 import type { CompiledModel, SensitivitySystem } from '../model/compiled-types.js';
 import { InputTrack } from './input-track.js';
@@ -167,14 +167,25 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
   for (const j of holdIdx) for (const tau of tracks[j].jumpTimes(drive.start, tEnd)) jumpSet.add(tau);
   const bounds = [drive.start, ...[...jumpSet].sort((a, b) => a - b), tEnd];
 
-  // Linear inputs that move: cap the step at two sample intervals so that no short feature of the
-  // input can fall between the points where the integrator looks at it.
-  const movingLinear = linearIdx.some((j) => {
+  // Linear inputs that move have a kink at every sample (+ delay): steps end there (breakpoints),
+  // so that no step straddles a kink and no short feature of the input falls between steps.
+  const kinkSet = new Set<number>();
+  for (const j of linearIdx) {
     const v = drive.inputs[j];
-    for (let i = 1; i < v.length; i++) if (v[i] !== v[0]) return true;
-    return false;
-  });
-  const meanInterval = M > 1 ? (tEnd - drive.time[0]) / (M - 1) : 0;
+    const d = tracks[j].delay;
+    for (let i = 1; i + 1 < v.length; i++) {
+      // A sample where the slope does not change is no kink.
+      const before = (v[i] - v[i - 1]) / (drive.time[i] - drive.time[i - 1]);
+      const after = (v[i + 1] - v[i]) / (drive.time[i + 1] - drive.time[i]);
+      if (before !== after) kinkSet.add(drive.time[i] + d);
+    }
+    if (v.length > 1) {
+      // The ends of the log: constant before the first sample and after the last.
+      if (v[1] !== v[0]) kinkSet.add(drive.time[0] + d);
+      if (v[v.length - 1] !== v[v.length - 2]) kinkSet.add(drive.time[v.length - 1] + d);
+    }
+  }
+  const kinks = Float64Array.from(kinkSet).sort();
 
   const solver = new Solver(N);
   solver.denseOutput = true;
@@ -208,7 +219,8 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
       let count = 0;
       while (first + count < M && (drive.time[first + count] < b || (lastSegment && drive.time[first + count] <= b))) count++;
       solver.maxSteps = options.maxSteps ?? defaultMaxSteps(count);
-      solver.maxStepSize = movingLinear && meanInterval > 0 ? Math.min(b - a, 2 * meanInterval) : b - a;
+      solver.maxStepSize = b - a;
+      solver.breakpoints = kinks.length ? kinks : null;
       solver.initialStepSize = Math.min(1e-4, (b - a) / 2);
       const end = first + count; // exclusive
       lastX = a;
