@@ -12,6 +12,7 @@ import type { CompiledModel } from '../model/compiled-types.js';
 import type { Model } from '../model/types.js';
 import type { SimulationResult } from '../simulation/types.js';
 import { TOOL, VERSION } from '../version.js';
+import { scoreSeries } from '../diagnostics/scores.js';
 import type { FitOptions, FitOutcome, ResidualSeries } from './fit-api.js';
 import type { FitResult, IdentifiabilityProblem, OutputResult, ParameterResult, WhitenessResult } from './fit-result.js';
 import { aicc, bic, gaussianLogLikelihood } from './information-criteria.js';
@@ -159,6 +160,11 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   const run = summary.run;
   if (!summary.sigmaConverged) {
     warnings.push(`the estimated noise levels still changed by more than ${SIGMA_TOLERANCE * 100} % after ${MAX_SIGMA_ROUNDS} refits; the weighting may not be settled`);
+  }
+  if (run.failedEvaluations > 0 && problem.lastFailure) {
+    warnings.push(
+      `${run.failedEvaluations} trial point${run.failedEvaluations > 1 ? 's' : ''} of the optimiser could not be simulated and ${run.failedEvaluations > 1 ? 'were' : 'was'} rejected; the last reason: ${problem.lastFailure.message}`,
+    );
   }
   if (run.status === 'stopped') warnings.push(`the fit stopped at the iteration limit before converging (${run.message}); raise --max-iterations or check the start values`);
 
@@ -365,28 +371,4 @@ function iterateNoise(
     if (again.status === 'failed') return { run, iterations, rounds, sigmaConverged: false };
     run = again;
   }
-}
-
-/** RMSE, NRMSE and R^2 over samples where both values exist (local so that the pipeline has no cycle). */
-function scoreSeries(measured: ArrayLike<number>, simulated: ArrayLike<number>) {
-  let n = 0;
-  let sum = 0;
-  for (let i = 0; i < measured.length; i++) {
-    if (Number.isFinite(measured[i]) && Number.isFinite(simulated[i])) {
-      n++;
-      sum += measured[i];
-    }
-  }
-  if (n === 0) return { samples: 0, rmse: NaN, nrmse: NaN, r2: NaN };
-  const mean = sum / n;
-  let sse = 0;
-  let sst = 0;
-  for (let i = 0; i < measured.length; i++) {
-    if (Number.isFinite(measured[i]) && Number.isFinite(simulated[i])) {
-      sse += (measured[i] - simulated[i]) ** 2;
-      sst += (measured[i] - mean) ** 2;
-    }
-  }
-  const rmse = Math.sqrt(sse / n);
-  return { samples: n, rmse, nrmse: sst > 0 ? rmse / Math.sqrt(sst / n) : NaN, r2: sst > 0 ? 1 - sse / sst : NaN };
 }
