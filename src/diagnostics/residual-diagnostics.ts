@@ -84,10 +84,6 @@ export function residualDiagnostics(series: ResidualSeries, inputs: InputSignal[
       run = k;
       sumSq += r[k] * r[k];
     }
-    if (run === 0) {
-      // No run from lag 1: name the largest lag of the test outside the per-lag band.
-      for (let k = 1; k <= lTest; k++) if (Math.abs(r[k]) > band) run = k;
-    }
     if (run > 0) {
       correlatedUpTo = timeOfLag(run);
       // A run reaching the last fifth of the lags examined: the time scale may lie beyond them.
@@ -96,7 +92,11 @@ export function residualDiagnostics(series: ResidualSeries, inputs: InputSignal[
           ? `residuals are correlated beyond ${say(run)} (near the longest lag examined, ${say(lShow)}): the model misses slow dynamics or a drift`
           : `residuals are correlated up to ${say(run)}: the model misses dynamics on that time scale`;
     } else {
-      correlatedWords = `residuals are not white (Ljung-Box p = ${lb.pValue.toPrecision(2)}) though no single lag stands out: the model misses small effects spread over many time scales`;
+      // No run from lag 1: the test sums many small correlations. Name the strongest lag of the
+      // test, without claiming that the residuals stay correlated up to it.
+      let at = 1;
+      for (let k = 2; k <= lTest; k++) if (Math.abs(r[k]) > Math.abs(r[at])) at = k;
+      correlatedWords = `residuals are weakly correlated (Ljung-Box p = ${lb.pValue.toPrecision(2)}), most at lag ${say(at)}: the model may miss a small effect on that time scale`;
     }
   }
 

@@ -52,6 +52,17 @@ describe('residualDiagnostics', () => {
     expect(d.verdict).toMatch(/^residuals are correlated beyond 2\.\d+ s \(near the longest lag examined, 2\.5 s\)/);
   });
 
+  it('names the strongest lag, without a time scale, when the correlation is not a run from lag 1', () => {
+    // e_t = w_t + 0.15 w_{t-20}: theory r_20 = 0.15/(1 + 0.0225) = 0.147, every other lag 0.
+    const n = 2000;
+    const w = white(n + 20, 8);
+    const e = Float64Array.from({ length: n }, (_, t) => w[t + 20] + 0.15 * w[t]);
+    const d = residualDiagnostics(seriesOf(e), [], { timeUnit: 's' });
+    expect(d.whiteness!.white).toBe(false);
+    expect(d.correlatedUpTo).toBeUndefined();
+    expect(d.verdict).toMatch(/^residuals are weakly correlated \(Ljung-Box p = [\d.e-]+\), most at lag 0\.2 s: the model may miss a small effect on that time scale$/);
+  });
+
   it('finds residuals that follow a delayed input, and names the delay', () => {
     const n = 3000;
     const u = white(n, 3);

@@ -31,7 +31,7 @@ async function outputBlock(fit: FitResult, shown: ShownOutput): Promise<Html> {
 <h4>${series.output}${series.unit && series.unit !== '1' ? html` <span class="note">(${series.unit})</span>` : ''}</h4>
 <p class="verdict ${verdictClass}">${o.verdict ?? 'no verdict'}</p>
 <p class="scores">samples ${o.samples}${o.missing ? ` (${o.missing} missing)` : ''} · RMSE ${withUnit(o.rmse, o.unit)} · NRMSE ${formatNumber(o.nrmse, 3)} · R² ${formatNumber(o.r2, 4)} · noise σ ${withUnit(o.sigma, o.unit)} ${o.sigmaEstimated ? '(estimated)' : '(given)'}${w ? ` · Ljung-Box Q ${formatNumber(w.ljungBox)} over ${w.lags} lags, ${w.pValue < 1e-4 ? 'p < 0.0001' : `p = ${formatNumber(w.pValue, 2)}`}` : ''}</p>
-${o.inputCorrelation?.length ? html`<p class="scores">largest cross-correlation with inputs: ${o.inputCorrelation.map((c) => `${c.input} ${c.maxAbs.toFixed(2)} at lag ${withUnit(c.lag, fit.timeUnit)} (band ±${c.band.toFixed(2)})`).join('; ')}</p>` : ''}
+${o.inputCorrelation?.length ? html`<p class="scores">largest cross-correlation of the residuals with each input: ${o.inputCorrelation.map((c) => `${c.input} ${c.maxAbs.toFixed(2)} at lag ${withUnit(c.lag, fit.timeUnit)} (95 % band of one lag ±${c.band.toFixed(2)})`).join('; ')}. The verdict judges all lags together, since one lag in twenty crosses its band by chance.</p>` : ''}
 ${figures.map((svg) => html`<figure>${raw(svg)}</figure>`)}
 </div>`;
 }

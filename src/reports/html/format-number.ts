@@ -14,3 +14,18 @@ export function withUnit(x: number | null | undefined, unit: string | undefined)
   const v = formatNumber(x);
   return unit && unit !== '1' && v !== '—' && v !== 'n/a' ? `${v} ${unit}` : v;
 }
+
+/**
+ * An estimate (or interval bound) with as many significant digits as its standard error supports,
+ * plus one: rounded at the second significant digit of the standard error (at least 3, at most 10
+ * significant digits), so that the estimate and its interval read at the same resolution.
+ */
+export function formatEstimate(x: number | null | undefined, stdError: number | null | undefined): string {
+  if (x === null || x === undefined || !Number.isFinite(x) || x === 0 || !stdError || !Number.isFinite(stdError) || stdError <= 0) return formatNumber(x);
+  const digits = Math.floor(Math.log10(Math.abs(x))) - Math.floor(Math.log10(stdError)) + 2;
+  const d = Math.max(3, Math.min(10, digits));
+  const a = Math.abs(x);
+  // Trailing zeros are kept here: they tell the resolution.
+  const fixed = x.toPrecision(d);
+  return a >= 1e-3 && a < 1e6 && !fixed.includes('e') ? fixed : formatNumber(x, d);
+}

@@ -1,7 +1,7 @@
 /** The parameter table and the overall statistics. */
 import type { FitResult, ParameterResult } from '../../estimation/fit-result.js';
 import { html, type Html } from './escape-html.js';
-import { formatNumber } from './format-number.js';
+import { formatEstimate, formatNumber } from './format-number.js';
 
 /** Pairwise |correlation| above this is flagged (shared spec numerics.md, Identifiability). */
 const HIGH_CORRELATION = 0.95;
@@ -22,11 +22,11 @@ export function parameterFlags(p: ParameterResult, fit: FitResult): string[] {
 export function parametersSection(fit: FitResult): Html {
   const rows = fit.parameters.map((p) => {
     const flags = parameterFlags(p, fit);
-    const interval = p.ci95 ? `${formatNumber(p.ci95[0])} … ${formatNumber(p.ci95[1])}` : p.status === 'free' ? '—' : '';
+    const interval = p.ci95 ? `${formatEstimate(p.ci95[0], p.stdError)} … ${formatEstimate(p.ci95[1], p.stdError)}` : p.status === 'free' ? '—' : '';
     const bounds = p.min !== undefined || p.max !== undefined ? `${formatNumber(p.min)} … ${formatNumber(p.max)}${p.scale === 'log' ? ' (log)' : ''}` : '';
     return html`<tr class="${p.status}">
-<td>${p.name}</td><td>${p.status}</td><td class="num">${formatNumber(p.estimate)}</td><td>${p.unit}</td>
-<td class="num">${p.status === 'free' ? formatNumber(p.stdError) : ''}</td><td class="num">${interval}</td><td class="num">${bounds}</td>
+<td>${p.name}</td><td>${p.status}</td><td class="num">${formatEstimate(p.estimate, p.stdError)}</td><td>${p.unit}</td>
+<td class="num">${p.status === 'free' ? formatNumber(p.stdError, 3) : ''}</td><td class="num">${interval}</td><td class="num">${bounds}</td>
 <td>${flags.length ? html`<span class="flag">${flags.join('; ')}</span>` : ''}</td></tr>`;
   });
   const s = fit.statistics;

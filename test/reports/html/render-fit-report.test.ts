@@ -49,7 +49,8 @@ describe('renderFitReport', () => {
     ];
     expect([...order].sort((a, b) => a - b)).toEqual(order);
     // Parameter table: estimate, unit, standard error, interval, flags in words.
-    expect(page).toMatch(/<td>K<\/td><td>free<\/td><td class="num">8\.2<\/td><td>rad\/\(s\*V\)<\/td>\s*<td class="num">0\.004<\/td><td class="num">8\.192 … 8\.208<\/td>/);
+    // Estimate and interval rounded at the second significant digit of the standard error (0.004).
+    expect(page).toMatch(/<td>K<\/td><td>free<\/td><td class="num">8\.2000<\/td><td>rad\/\(s\*V\)<\/td>\s*<td class="num">0\.004<\/td><td class="num">8\.1920 … 8\.2080<\/td>/);
     expect(page).toContain('at lower bound: interval not reliable; not determined by the data');
     expect(page).toContain(fit.identifiability.problems[0].message);
     expect(page).toContain(fit.warnings[0]);
