@@ -187,9 +187,13 @@ function nestedTests(models: readonly RankedModel[]): NestedTest[] {
   return tests;
 }
 
+/** Six significant digits for criteria (differences of a few units matter on values of thousands). */
 export function fmt(v: number, digits = 6): string {
-  if (!Number.isFinite(v)) return String(v);
-  return String(Number(v.toPrecision(digits)));
+  if (!Number.isFinite(v)) return v > 0 ? 'inf' : v < 0 ? '-inf' : '-';
+  if (v === 0) return '0';
+  const a = Math.abs(v);
+  if (a >= 1e-3 && a < 1e9) return String(Number(v.toPrecision(digits)));
+  return v.toExponential(digits - 1).replace('e+', 'e');
 }
 
 function fmtP(p: number): string {

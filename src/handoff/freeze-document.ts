@@ -107,7 +107,10 @@ export function freezeModelText(
 
   summary.movedPaths = rewriteDataPaths(doc, model, options.outputDir);
   prependHeader(doc, headerLines(model, estimates, options));
-  return { text: doc.toString({ lineWidth: 0 }), summary };
+  // Folded text (descriptions) is re-wrapped by the printer: at the width of the user's longest line
+  // it keeps their wrapping as far as the Document API allows (alignment spaces are not kept).
+  const longest = sourceText.split(/\r?\n/).reduce((w, line) => Math.max(w, line.length), 0);
+  return { text: doc.toString({ lineWidth: Math.max(80, longest), minContentWidth: 0 }), summary };
 }
 
 function missingRow(estimates: EstimatesFile, name: string): Problem {
@@ -171,8 +174,7 @@ function rewriteDataPaths(doc: Document, model: Model, outputDir: string): { exp
   const moved: { experiment: string; file: string }[] = [];
   for (const e of model.experiments) {
     if (path.isAbsolute(e.fileAsWritten)) continue;
-    const rel = path.relative(outputDir, e.file).split(path.sep).join('/');
-    const newPath = rel === '' ? path.basename(e.file) : rel;
+    const newPath = pathFrom(outputDir, e.file);
     if (newPath === e.fileAsWritten) continue;
     const item = experimentNode(doc, e.name);
     const node = item?.get('file', true);
@@ -181,6 +183,25 @@ function rewriteDataPaths(doc: Document, model: Model, outputDir: string): { exp
     moved.push({ experiment: e.name, file: newPath });
   }
   return moved;
+}
+
+/**
+ * The data file's path as seen from `outputDir`: relative when the two share a folder below the
+ * file system's root, absolute otherwise (a chain of `../` up to the root helps nobody).
+ */
+function pathFrom(outputDir: string, file: string): string {
+  const rel = path.relative(outputDir, file);
+  const shared = commonAncestor(path.resolve(outputDir), path.resolve(file));
+  if (path.isAbsolute(rel) || shared === path.parse(shared).root) return file.split(path.sep).join('/');
+  return rel.split(path.sep).join('/');
+}
+
+function commonAncestor(a: string, b: string): string {
+  const pa = a.split(path.sep);
+  const pb = b.split(path.sep);
+  let i = 0;
+  while (i < pa.length && i < pb.length && pa[i] === pb[i]) i++;
+  return pa.slice(0, i).join(path.sep) || path.sep;
 }
 
 function appendCommentBefore(pair: Pair, lines: string[]): void {

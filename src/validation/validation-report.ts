@@ -9,6 +9,7 @@ import path from 'node:path';
 import { UserError } from '../errors.js';
 import type { ResidualSeries } from '../estimation/fit-api.js';
 import { renderResidualsCsv } from '../reports/residuals-csv.js';
+import { formatNumber } from '../reports/summary-table.js';
 import { writeFolderAtomic, type FolderEntry } from '../util/atomic-write.js';
 import type { ValidationResult } from './validation-result.js';
 
@@ -85,7 +86,7 @@ export function validationText(result: ValidationResult): string {
   return `${lines.join('\n')}\n`;
 }
 
+/** Four significant digits, exponent form outside [1e-3, 1e6) (as the fit summary prints). */
 function show(v: number, digits = 4): string {
-  if (!Number.isFinite(v)) return '-';
-  return String(Number(v.toPrecision(digits)));
+  return formatNumber(v, digits);
 }

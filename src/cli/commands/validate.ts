@@ -54,7 +54,7 @@ Example:
         const outputs = outcome.result.outputs.map((o) => o.output).filter((o, i, a) => a.indexOf(o) === i);
         const written = writeValidationFolder(folder, outcome.result, outcome.series, outputs, report);
         if (opts.json) ctx.io.stdout(`${JSON.stringify(outcome.result, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
-        else ctx.io.stdout(`${validationText(outcome.result)}results: ${path.relative(ctx.io.cwd, written) || '.'}\n`);
+        else ctx.io.stdout(`${validationText(outcome.result)}results: ${opts.output ?? (path.relative(ctx.io.cwd, written) || '.')}\n`);
         return 0;
       }),
     );
