@@ -38,26 +38,29 @@ const COMPARISON_JS = { lt: '<', le: '<=', gt: '>', ge: '>=', eq: '===', ne: '!=
 
 /** The body of a function that performs `assignments`; `reader` says how each symbol is read. */
 export function emitBody(pool: ExprPool, assignments: readonly Assignment[], reader: SymbolReader): string {
-  // Use counts over the reachable part of the DAG.
-  const uses = new Map<number, number>();
+  // Use counts over the reachable part of the DAG (arrays indexed by node id: pools are small).
+  const total = pool.nodes.length;
+  const uses = new Int32Array(total);
+  const visited = new Uint8Array(total);
   const stack: number[] = [];
   for (const a of assignments) {
-    uses.set(a.node, (uses.get(a.node) ?? 0) + 1);
+    uses[a.node]!++;
     stack.push(a.node);
   }
-  const visited = new Set<number>();
+  const reached: number[] = [];
   while (stack.length) {
     const id = stack.pop()!;
-    if (visited.has(id)) continue;
-    visited.add(id);
+    if (visited[id]) continue;
+    visited[id] = 1;
+    reached.push(id);
     for (const a of pool.argsOf(id)) {
-      uses.set(a, (uses.get(a) ?? 0) + 1);
-      if (!visited.has(a)) stack.push(a);
+      uses[a]!++;
+      if (!visited[a]) stack.push(a);
     }
   }
 
-  const order = [...visited].sort((a, b) => a - b); // ids are a topological order
-  const text = new Map<number, string>();
+  const order = reached.sort((a, b) => a - b); // ids are a topological order
+  const text: string[] = new Array<string>(total);
   /** For comparisons that stay inline: the boolean form, used directly as a condition. */
   const boolText = new Map<number, string>();
   const lines: string[] = ['"use strict";'];
@@ -68,10 +71,10 @@ export function emitBody(pool: ExprPool, assignments: readonly Assignment[], rea
     const n = pool.node(id);
     let expr: string;
     let isBool: string | undefined;
-    const arg = (k: number) => text.get(k)!;
+    const arg = (k: number) => text[k]!;
     switch (n.op) {
       case 'num':
-        text.set(id, numberLiteral(n.value));
+        text[id] = numberLiteral(n.value);
         continue;
       case 'sym':
         expr = reader(n);
@@ -104,19 +107,19 @@ export function emitBody(pool: ExprPool, assignments: readonly Assignment[], rea
     // Symbols (array reads) always become locals, 't' is already one; shared nodes too, and long
     // inline texts (so that building the text of deep expressions stays linear).
     const isTime = n.op === 'sym' && expr === 't';
-    if (!isTime && (n.op === 'sym' || (uses.get(id) ?? 0) > 1 || expr.length > MAX_INLINE_CHARS)) {
+    if (!isTime && (n.op === 'sym' || uses[id]! > 1 || expr.length > MAX_INLINE_CHARS)) {
       const name = `v${locals++}`;
       lines.push(`const ${name}=${expr};`);
       size += expr.length + 12;
-      text.set(id, name);
+      text[id] = name;
     } else {
-      text.set(id, expr);
+      text[id] = expr;
       if (isBool) boolText.set(id, isBool);
     }
     if (size > MAX_BODY_CHARS) throw new ExpressionTooLarge(MAX_BODY_CHARS);
   }
   for (const a of assignments) {
-    const line = `${a.target}[${a.index}]=${text.get(a.node)!};`;
+    const line = `${a.target}[${a.index}]=${text[a.node]!};`;
     size += line.length;
     lines.push(line);
   }

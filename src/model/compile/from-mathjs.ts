@@ -80,7 +80,7 @@ export function fromMathjs(pool: ExprPool, root: MathNode, options: ConvertOptio
       case 'OperatorNode':
         return convertOperator(node as unknown as { fn: string; op: string; args: MathNode[] });
       case 'FunctionNode':
-        return convertFunction(node as unknown as { fn: { name?: string }; args: MathNode[] });
+        return convertFunction(node as unknown as { fn: { type?: string; name?: string }; args: MathNode[] });
       default:
         throw new UnsupportedExpression(
           `${node.type} is not part of the model language`,
@@ -138,8 +138,10 @@ export function fromMathjs(pool: ExprPool, root: MathNode, options: ConvertOptio
     }
   };
 
-  const convertFunction = (node: { fn: { name?: string }; args: MathNode[] }): number => {
-    const name = typeof node.fn?.name === 'string' ? node.fn.name : undefined;
+  const convertFunction = (node: { fn: { type?: string; name?: string }; args: MathNode[] }): number => {
+    // Only a plain name may be called: `obj.sin(x)` has an accessor as callee, whose `name` would
+    // also read "sin".
+    const name = node.fn?.type === 'SymbolNode' && typeof node.fn.name === 'string' ? node.fn.name : undefined;
     const args = node.args;
     if (name === undefined) {
       throw new UnsupportedExpression('a computed function call', 'call one of the listed functions by name');

@@ -109,6 +109,18 @@ describe('the text of the generated code', () => {
     }
   });
 
+  it('generated functions allocate nothing: no objects, arrays, closures or calls outside Math', () => {
+    const cm = compileModel(bigModel());
+    const sys = cm.sensitivity([0, 1, 2]);
+    for (const src of [cm.source.rhs, cm.source.outputs, ...cm.source.initial, sys.source.rhs, sys.source.outputs, ...sys.source.initial]) {
+      expect(src).not.toMatch(/\bnew\b|\{|=>|\bfunction\b|\.\.\./);
+      // Every '[' is an indexed read or write of one of our arrays.
+      expect(src.replace(/\b(x|u|p|z|udot|dx|dz|y|dy|x0|z0)\[\d+\]/g, '')).not.toContain('[');
+      // Every call is to Math.
+      expect(src.replace(/Math\.[a-z0-9]+\(/g, '')).not.toMatch(/[A-Za-z0-9_$]\(/);
+    }
+  });
+
   it('negative constants are parenthesised (x - (-1.5) must not become x--1.5)', () => {
     const cm = compileModel(makeModel({ states: { x: 0 }, params: { k: 1 }, equations: { x: 'x - (-1.5) * k' } }));
     expect(cm.source.rhs).toContain('(-1.5)');
@@ -186,6 +198,8 @@ describe('what the compiler refuses (the loader should have already)', () => {
     refuse('a * q', /unknown name "q"/);
     refuse('evaluate(a)', /function "evaluate"/);
     refuse('a.b', /not part of the model language/);
+    refuse('a.sin(x)', /computed function call/);
+    refuse('Math.sin(x)', /computed function call/);
     refuse('[1, 2]', /ArrayNode/);
     refuse('"text"', /constant of type string/);
     refuse('f(x) = 1', /FunctionAssignmentNode/);
