@@ -46,6 +46,10 @@ export function readFitJson(file: string): FitResult {
       fix: 'run `rigcal fit` again to rewrite the results folder',
     });
   }
+  const notArray = (['parameters', 'outputs', 'warnings'] as const).find((k) => !Array.isArray(fit[k]));
+  if (notArray || !Array.isArray(fit.correlation?.names) || !Array.isArray(fit.identifiability?.problems)) {
+    throw new UserError({ where: { file, key: notArray ?? 'correlation' }, what: 'fit.json does not have the layout rigcal writes', fix: 'run `rigcal fit` again to rewrite the results folder' });
+  }
   if (fit.format !== 1) {
     throw new UserError({ where: { file, key: 'format' }, what: `fit.json has format ${String(fit.format)}; this rigcal reads format 1`, fix: 'use the rigcal version that wrote it, or run `rigcal fit` again' });
   }
