@@ -9,13 +9,19 @@
  * Two criteria per experiment and output:
  *  - the sum of squared differences rigcal - scipy is below 0.1 % of the sum of squared measurement
  *    noise (logged - scipy) in the same samples: integration error is invisible next to the noise;
- *  - the largest difference relative to the output's largest magnitude is below 1e-6 (rigcal's
- *    default rtol is 1e-8; 1e-6 leaves room for error growth over thousands of steps: common
- *    practice, no source).
+ *  - the largest difference relative to the output's largest magnitude is below 2e-6 at rigcal's
+ *    default tolerance (rtol 1e-8 per step; the global error grows over thousands of steps, e.g.
+ *    2.7e-4 K on 300 K after 30 min of the thermal case: common practice, no source);
+ * and, through the library with rtol 1e-12, below 1e-8: the remaining difference is integration
+ * error, not a different reading of holds, delays, units, windows or initial values.
  */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { loadExperimentData } from '../../src/data/load-experiment.js';
+import { compileModel } from '../../src/model/compile/index.js';
+import { loadModel, parseOverrides } from '../../src/model/load/index.js';
+import { parameterVector, simulateExperiment } from '../../src/simulation/index.js';
 import { rigcal, scratchDir } from '../cli/run-cli.js';
 import { readSimulationCsv } from './read-csv.js';
 
@@ -71,11 +77,24 @@ describe.each(cases)('rigcal simulate vs scipy solve_ivp (Radau, rtol 1e-11): %s
         for (let i = 0; i < values.length; i++) ssd += (mine[i] - values[i]) ** 2;
         const noise = exp.noise[output].ssq;
         expect(ssd, `${output}: squared error vs 0.1 % of squared noise`).toBeLessThan(1e-3 * noise);
-        expect(maxRelative(mine, values), `${output}: max relative difference`).toBeLessThan(1e-6);
+        expect(maxRelative(mine, values), `${output}: max relative difference`).toBeLessThan(2e-6);
       }
       for (const [state, values] of Object.entries(exp.states)) {
-        expect(maxRelative(cols[`${state}_state`], values), `state ${state}`).toBeLessThan(1e-6);
+        expect(maxRelative(cols[`${state}_state`], values), `state ${state}`).toBeLessThan(2e-6);
       }
     });
   }
+});
+
+describe.each(cases)('library at rtol 1e-12 vs scipy: %s converges to the reference', (name) => {
+  const ref = JSON.parse(readFileSync(join(fixtures, 'scipy', `${name}.json`), 'utf8')) as ReferenceFile;
+  it.each(ref.experiments.map((e) => [e.name, e] as const))('experiment %s', (_name, exp) => {
+    const model = loadModel(join(fixtures, 'models', ref.model), { overrides: parseOverrides(exp.set ?? []) });
+    const compiled = compileModel(model);
+    const k = model.experiments.findIndex((e) => e.name === exp.name);
+    const result = simulateExperiment(compiled, loadExperimentData(model, k), parameterVector(compiled, k), { rtol: 1e-12 });
+    model.outputs.forEach((o, j) => {
+      expect(maxRelative(Array.from(result.outputs[j]), exp.outputs[o.name]), o.name).toBeLessThan(1e-8);
+    });
+  });
 });
