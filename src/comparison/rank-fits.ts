@@ -180,7 +180,7 @@ function nestedTests(models: readonly RankedModel[]): NestedTest[] {
       dof: t.dof,
       pValue: t.pValue,
       verdict: significant
-        ? `${large.name} fits significantly better than ${small.name} (p = ${fmtP(t.pValue)} < ${LRT_ALPHA}): its extra parameters are supported`
+        ? `${large.name} fits significantly better than ${small.name} (p ${fmtP(t.pValue).startsWith('<') ? '' : '= '}${fmtP(t.pValue)} < ${LRT_ALPHA}): its extra parameters are supported`
         : `${large.name} does not fit significantly better than ${small.name} (p = ${fmtP(t.pValue)} >= ${LRT_ALPHA}): keep the simpler model`,
     });
   }
@@ -196,6 +196,8 @@ export function fmt(v: number, digits = 6): string {
   return v.toExponential(digits - 1).replace('e+', 'e');
 }
 
-function fmtP(p: number): string {
+/** 1 - F(x) in double precision cannot resolve tails below about 1e-15. */
+export function fmtP(p: number): string {
+  if (p < 1e-15) return '< 1e-15';
   return p < 1e-4 ? p.toExponential(1) : fmt(p, 3);
 }

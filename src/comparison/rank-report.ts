@@ -1,5 +1,5 @@
 /** The `rank` result rendered for people (a table and sentences) and for programs (JSON). */
-import { fmt, type RankedModel } from './rank-fits.js';
+import { fmt, fmtP, type RankedModel } from './rank-fits.js';
 import type { RankOutcome } from './rank-models.js';
 
 export function rankJson(r: RankOutcome): object {
@@ -55,6 +55,7 @@ export function rankText(r: RankOutcome): string {
   if (validationKeys.length) lines.push('NRMSE: RMSE over the standard deviation of the measurement, on validation experiments (never fitted); lower is better.');
   lines.push('', `preferred: ${r.preferred}: ${r.reason}.`);
   for (const m of r.models) {
+    if (m.status !== 'converged') lines.push(`  ${m.name}: the fit ended with status "${m.status}": its place in the ranking is not reliable`);
     const notWhite = m.whiteness.filter((w) => w.white === false);
     if (notWhite.length) lines.push(`  ${m.name}: ${notWhite.map((w) => `${w.experiment}/${w.output}: ${w.verdict}`).join('; ')}`);
   }
@@ -62,7 +63,8 @@ export function rankText(r: RankOutcome): string {
     lines.push('', 'likelihood-ratio tests (only meaningful when each smaller model is a special case of the larger):');
     if (!r.nested.length) lines.push('  none: no two candidates differ in their number of free parameters');
     for (const t of r.nested) {
-      lines.push(`  ${t.smaller} vs ${t.larger}: statistic ${fmt(t.statistic, 5)}, ${t.dof} degrees of freedom, p = ${fmt(t.pValue, 3)}: ${t.verdict}`);
+      const p = fmtP(t.pValue);
+      lines.push(`  ${t.smaller} vs ${t.larger}: statistic ${fmt(t.statistic, 5)}, ${t.dof} degree${t.dof === 1 ? '' : 's'} of freedom, p ${p.startsWith('<') ? p : `= ${p}`}: ${t.verdict}`);
     }
   }
   for (const f of r.failures) lines.push(`not ranked: ${f.name} (${f.file}): the fit failed: ${f.message}`);

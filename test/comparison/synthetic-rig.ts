@@ -14,7 +14,7 @@ import path from 'node:path';
 export const TRUTH = { m: 1.0, mBump: 1.25, k: 40, c: 0.8, x0Shake: -0.012, x0Bump: 0.02 };
 export const NOISE_MM = 0.5;
 const DT = 0.02;
-const SAMPLES = 401;
+const SAMPLES = 301;
 
 /** mulberry32: a small, well-known 32-bit seeded generator (public domain). */
 export function mulberry32(seed: number): () => number {
