@@ -15,7 +15,11 @@ export function formatNumber(x: number | null | undefined, digits = 4): string {
   if (x === 0) return '0';
   const a = Math.abs(x);
   if (a >= 1e-3 && a < 1e6) return String(Number(x.toPrecision(digits)));
-  return x.toExponential(digits - 1).replace('e+', 'e');
+  return x.toExponential(digits - 1).replace(/\.?0+e/, 'e').replace('e+', 'e');
+}
+
+function criterion(x: number): string {
+  return Number.isFinite(x) ? x.toFixed(2) : 'n/a (too few observations)';
 }
 
 function table(header: string[], rows: string[][]): string {
@@ -72,9 +76,10 @@ export function renderFitSummary(fit: FitResult, resultsFolder?: string): string
   parts.push(renderParameterTable(fit));
   parts.push('');
   parts.push(
-    `observations ${s.observations}, free parameters ${s.freeParameters}, weighted SSE ${formatNumber(s.weightedSSE)}` +
+    `observations ${s.observations}, free parameters ${s.freeParameters}, weighted SSE ${formatNumber(s.weightedSSE, 6)}` +
       (s.reducedChiSquare !== undefined ? `, reduced chi-square ${formatNumber(s.reducedChiSquare)}` : '') +
-      `, AICc ${formatNumber(s.aicc)}, BIC ${formatNumber(s.bic)}`,
+      // Criteria are compared by differences of a few units: print them to 0.01 whatever their size.
+      `, AICc ${criterion(s.aicc)}, BIC ${criterion(s.bic)}`,
   );
   parts.push('');
   parts.push('fit quality per output:');

@@ -7,7 +7,7 @@ import { UserError } from '../../src/errors.js';
 import { readEstimates } from '../../src/reports/read-estimates.js';
 import { renderEstimatesYaml } from '../../src/reports/estimates-yaml.js';
 import { renderResidualsCsv } from '../../src/reports/residuals-csv.js';
-import { renderFitSummary } from '../../src/reports/summary-table.js';
+import { formatNumber, renderFitSummary } from '../../src/reports/summary-table.js';
 import { writeResults } from '../../src/reports/write-results.js';
 import { sampleOutcome } from './helpers/sample-fit.js';
 
@@ -136,5 +136,14 @@ describe('summary table', () => {
     expect(text).toMatch(/0\.49 rad\/s \(estimated\)/);
     expect(text).toMatch(/warnings:\n {2}- Tc is at its lower bound/);
     expect(lines.filter((l) => l).pop()).toBe('results: /tmp/x');
+  });
+
+  it('rounds numbers for reading without trailing zeros', () => {
+    expect(formatNumber(3.5e-4, 6)).toBe('3.5e-4');
+    expect(formatNumber(3.50554e-4, 6)).toBe('3.50554e-4');
+    expect(formatNumber(293.15, 6)).toBe('293.15');
+    expect(formatNumber(2.5e7)).toBe('2.5e7');
+    expect(formatNumber(null)).toBe('-');
+    expect(formatNumber(0)).toBe('0');
   });
 });
