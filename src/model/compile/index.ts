@@ -71,30 +71,43 @@ const plainReader: SymbolReader = (node) => {
  * Compiles a loaded model. Throws UserError when an expression is outside the model language
  * (the loader should have refused it already) or when the model is too large to compile.
  */
-export function compileModel(model: Model): CompiledModelDetails {
+export interface CompileOptions {
+  /**
+   * Most distinct operations the model's expressions and derivatives may take (default 500 000,
+   * about 100 MB); past it, a UserError says the model is too large instead of exhausting memory.
+   */
+  maxNodes?: number;
+}
+
+export function compileModel(model: Model, options: CompileOptions = {}): CompiledModelDetails {
   try {
-    return compile(model);
+    return compile(model, options);
   } catch (err) {
-    if (err instanceof ExpressionTooLarge) {
-      throw new UserError({
-        where: { file: model.fileAsGiven },
-        what: `the model is too large to compile: ${err.message}`,
-        fix: 'split very long expressions into defines, or simplify the model',
-      });
-    }
-    if (err instanceof RangeError && /call stack/i.test(err.message)) {
-      throw new UserError({
-        where: { file: model.fileAsGiven },
-        what: 'an expression is nested too deeply to compile',
-        fix: 'split it into defines',
-      });
-    }
-    throw err;
+    throw asUserError(model, err);
   }
 }
 
-function compile(model: Model): CompiledModelDetails {
-  const low = lowerModel(model);
+/** Size and depth failures are the model's (a user error with a fix); anything else is ours. */
+function asUserError(model: Model, err: unknown): unknown {
+  if (err instanceof ExpressionTooLarge) {
+    return new UserError({
+      where: { file: model.fileAsGiven },
+      what: `the model is too large to compile: ${err.message}`,
+      fix: 'split very long expressions into defines, estimate fewer parameters at once, or simplify the model',
+    });
+  }
+  if (err instanceof RangeError && /call stack/i.test(err.message)) {
+    return new UserError({
+      where: { file: model.fileAsGiven },
+      what: 'an expression is nested too deeply to compile',
+      fix: 'split it into defines',
+    });
+  }
+  return err;
+}
+
+function compile(model: Model, options: CompileOptions): CompiledModelDetails {
+  const low = lowerModel(model, options.maxNodes);
   const { pool, nStates, nInputs, nParams } = low;
 
   const rhsAssign: Assignment[] = low.equations.map((raw, i) => ({ target: 'dx', index: i, node: low.resolve(raw) }));
@@ -145,7 +158,11 @@ function compile(model: Model): CompiledModelDetails {
       const key = slots.join(',');
       let system = sensitivityCache.get(key);
       if (!system) {
-        system = buildSensitivitySystem(low, slots);
+        try {
+          system = buildSensitivitySystem(low, slots);
+        } catch (err) {
+          throw asUserError(model, err);
+        }
         sensitivityCache.set(key, system);
       }
       return system;
@@ -158,13 +175,11 @@ function compile(model: Model): CompiledModelDetails {
 function describeStructure(model: Model, low: LoweredModel): ModelStructure {
   const reads = (raws: number[]) => {
     const sets = { x: new Set<number>(), u: new Set<number>(), p: new Set<number>(), t: false };
-    for (const raw of raws) {
-      for (const s of low.diff.deps(low.resolve(raw))) {
-        const node = low.pool.node(s);
-        if (node.op !== 'sym') continue;
-        if (node.kind === 't') sets.t = true;
-        else if (node.kind === 'x' || node.kind === 'u' || node.kind === 'p') sets[node.kind].add(node.index);
-      }
+    for (const s of low.pool.symbolsOf(raws.map(low.resolve))) {
+      const node = low.pool.node(s);
+      if (node.op !== 'sym') continue;
+      if (node.kind === 't') sets.t = true;
+      else if (node.kind === 'x' || node.kind === 'u' || node.kind === 'p') sets[node.kind].add(node.index);
     }
     const sorted = (s: Set<number>) => [...s].sort((a, b) => a - b);
     return { x: sorted(sets.x), u: sorted(sets.u), p: sorted(sets.p), t: sets.t };

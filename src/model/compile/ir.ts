@@ -65,7 +65,7 @@ export class ExprPool {
   readonly ONE: number;
 
   /** `maxNodes` bounds memory for hostile or runaway models (a clear error instead of exhaustion). */
-  constructor(private readonly maxNodes = 2_000_000) {
+  constructor(private readonly maxNodes = 500_000) {
     this.ZERO = this.num(0);
     this.ONE = this.num(1);
   }
@@ -249,6 +249,25 @@ export class ExprPool {
       memo.set(top, this.rebuild(top, n.args.map((a) => memo.get(a)!)));
     }
     return memo.get(id)!;
+  }
+
+  /**
+   * The symbol nodes reachable from `roots` (one walk, nothing memoised per node: used on resolved
+   * expressions, whose nodes may each reach many symbols).
+   */
+  symbolsOf(roots: readonly number[]): number[] {
+    const seen = new Set<number>();
+    const found: number[] = [];
+    const stack = [...roots];
+    while (stack.length) {
+      const id = stack.pop()!;
+      if (seen.has(id)) continue;
+      seen.add(id);
+      const n = this.nodes[id]!;
+      if (n.op === 'sym') found.push(id);
+      else if (n.op !== 'num') for (const a of n.args) if (!seen.has(a)) stack.push(a);
+    }
+    return found.sort((a, b) => a - b);
   }
 
   /** Builds node `id`'s operation again on new arguments (folding applies). */

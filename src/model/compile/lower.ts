@@ -40,8 +40,8 @@ interface Binding {
   index: number;
 }
 
-export function lowerModel(model: Model): LoweredModel {
-  const pool = new ExprPool();
+export function lowerModel(model: Model, maxNodes?: number): LoweredModel {
+  const pool = new ExprPool(maxNodes);
   const problems = new ProblemList();
   const nStates = model.states.length;
   const nInputs = model.inputs.length;
@@ -161,7 +161,7 @@ export function lowerModel(model: Model): LoweredModel {
   const diff = new Differentiator(pool);
   const resolve = (raw: number) => pool.substitute(raw, lookup, memo);
   const checkInitial = (raw: number, expr: Expr, state: string) => {
-    for (const s of diff.deps(resolve(raw))) {
+    for (const s of pool.symbolsOf([resolve(raw)])) {
       const n = pool.node(s);
       if (n.op === 'sym' && n.kind !== 'p') {
         problems.add(

@@ -54,7 +54,7 @@ export function buildSensitivitySystem(low: LoweredModel, slots: readonly number
     const x: number[] = [];
     const u: number[] = [];
     const p: number[] = [];
-    for (const s of diff.deps(low.resolve(raw))) {
+    for (const s of pool.symbolsOf([low.resolve(raw)])) {
       const node = pool.node(s);
       if (node.op !== 'sym') continue;
       if (node.kind === 'x') x.push(node.index);

@@ -215,6 +215,12 @@ describe('what the compiler refuses (the loader should have already)', () => {
       compileModel(makeModel({ states: { x: 'd', y: 0 }, params: { a: 1 }, defines: { d: 'y * a' }, equations: { x: '1', y: '1' } })),
     ).toThrow(/depends on a state, an input or time/);
   });
+  it('a model too large to compile is a UserError, also when only its sensitivity system is too large', () => {
+    expect(() => compileModel(bigModel(), { maxNodes: 50 })).toThrow(/too large to compile/);
+    const cm = compileModel(linearModel(), { maxNodes: 150 });
+    expect(() => cm.sensitivity([0, 1, 2, 3, 4, 5])).toThrow(UserError);
+  });
+
   it('a define that uses a later define', () => {
     expect(() => compileModel(makeModel({ ...base, defines: { d1: 'd2', d2: 'a' }, equations: { x: 'd1' } }))).toThrow(/used before/);
   });
