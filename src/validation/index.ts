@@ -1,0 +1,7 @@
+/** `validate`: a calibrated model scored on data it was not fitted to. */
+export { validateModel } from './validate-model.js';
+export type { ValidateOptions, ValidateOutcome } from './validate-model.js';
+export type { ValidationData, ValidationOutputScore, ValidationResult } from './validation-result.js';
+export { defaultValidationFolder, validationText, writeValidationFolder, VALIDATION_FILES } from './validation-report.js';
+export { renderValidationReport } from './validation-html.js';
+export { withNewLog } from './new-log-experiment.js';
