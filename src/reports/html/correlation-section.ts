@@ -7,7 +7,7 @@ import { renderVegaLiteSvg } from './vega-svg.js';
 export async function correlationSection(fit: FitResult): Promise<Html> {
   const { names, matrix } = fit.correlation;
   if (names.length < 2) {
-    return html`<section id="correlation"><h2>Correlation</h2><p>${names.length ? 'Only one parameter is free: no correlation to show.' : 'No free parameter.'}</p></section>`;
+    return html`<section id="correlation"><h2>Correlation</h2><p>${names.length ? 'Only one parameter is free: no correlation to show.' : 'No correlation available (no free parameter, or the fit stopped before computing it).'}</p></section>`;
   }
   const svg = await renderVegaLiteSvg(correlationSpec(names, matrix));
   return html`<section id="correlation"><h2>Correlation</h2>

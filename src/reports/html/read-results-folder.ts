@@ -10,8 +10,12 @@ import { UserError } from '../../errors.js';
 import type { ResidualSeries } from '../../estimation/fit-api.js';
 import type { FitResult } from '../../estimation/fit-result.js';
 
-/** residuals.csv larger than this is refused with a clear message rather than exhausting memory. */
-export const MAX_RESIDUALS_BYTES = 1 << 30;
+/**
+ * residuals.csv larger than this is refused with a clear message rather than exhausting memory
+ * (the file is parsed whole; V8 strings stop near 512 MiB and the parsed rows take several times the
+ * file's size). 256 MiB is some three million rows of a few outputs.
+ */
+export const MAX_RESIDUALS_BYTES = 256 * 2 ** 20;
 
 export interface ResultsFolder {
   fit: FitResult;

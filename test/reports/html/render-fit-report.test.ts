@@ -104,4 +104,19 @@ describe('renderFitReport', () => {
     const page = await renderFitReport(fit, series);
     expect(page).toContain('No measured sample of this output in this experiment.');
   });
+
+  it('renders a failed fit without residuals, saying what is missing', async () => {
+    const { fit } = demoResults({ samples: 100, validation: false });
+    fit.status = 'failed';
+    fit.message = 'could not simulate at the start values';
+    fit.outputs = [];
+    fit.correlation = { names: [], matrix: [] };
+    fit.parameters = fit.parameters.map((p) => (p.status === 'free' ? { ...p, estimate: NaN, stdError: null, ci95: null } : p));
+    const page = await renderFitReport(fit, []);
+    expect(page).toContain('<span class="status failed">failed</span> could not simulate at the start values');
+    expect(page).toContain('<p>No correlation available (no free parameter, or the fit stopped before computing it).</p>');
+    expect(page).toContain('<p>No residual series to show.</p>');
+    expect(page).toMatch(/<td>K<\/td><td>free<\/td><td class="num">n\/a<\/td>/);
+    expect(page).not.toContain('<svg');
+  });
 });
