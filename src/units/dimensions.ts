@@ -39,7 +39,9 @@ export function quantityOf(unitText: string): Quantity | undefined {
   const u = parseUnit(unitText);
   if (!u) return undefined;
   const q: Quantity = { dims: dimensionOf(u), scale: siScale(u), text: unitText.trim() || '1' };
-  if (hasOffset(u)) q.offsetUnit = unitText.trim();
+  // Only a bare offset unit (degC, not degC/s) reads an absolute temperature.
+  const parts = (u as unknown as { units: { power: number }[] }).units;
+  if (hasOffset(u) && parts.length === 1 && parts[0].power === 1) q.offsetUnit = unitText.trim();
   return q;
 }
 

@@ -76,6 +76,9 @@ describe('quantities of unit strings', () => {
     expect(mismatch(q('degC'), q('K'))).toContain('offset scale');
     expect(mismatch(q('degC'), q('degC'))).toBeUndefined();
     expect(q('degF').scale).toBeCloseTo(5 / 9, 15);
+    // A rate in degC/s is an ordinary rate: agrees with K/s.
+    expect(q('degC/s').offsetUnit).toBeUndefined();
+    expect(mismatch(q('degC/s'), q('K/s'))).toBeUndefined();
   });
 
   it('unknown units give no quantity', () => {

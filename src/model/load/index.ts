@@ -36,6 +36,19 @@ export interface LoadOptions {
 
 /** Load and check a model file. Throws one UserError listing every problem found. */
 export function loadModel(file: string, options: LoadOptions = {}): Model {
+  try {
+    return load(file, options);
+  } catch (err) {
+    // Every walk is bounded by the caps in limits.ts; should a hostile file still exhaust the
+    // stack, it is the file's fault and is reported as such, never as a crash.
+    if (err instanceof RangeError) {
+      throw new UserError({ where: { file }, what: 'the model file is nested too deeply to read', fix: 'a model file needs only a few levels of nesting' });
+    }
+    throw err;
+  }
+}
+
+function load(file: string, options: LoadOptions): Model {
   const absolute = resolve(file);
   const source = readSourceFile(file, absolute);
   const ctx = parseYaml(file, source.text);

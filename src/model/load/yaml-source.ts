@@ -81,9 +81,13 @@ export function parseYaml(file: string, text: string): LoadContext {
   for (const e of [...doc.errors, ...doc.warnings]) {
     const pos = e.linePos?.[0];
     const first = e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '');
-    const what = e.code === 'DUPLICATE_KEY' ? 'this key appears twice in the same map' : `YAML: ${first}`;
+    const tooDeep = /call stack/i.test(first);
+    const what = e.code === 'DUPLICATE_KEY'
+      ? 'this key appears twice in the same map'
+      : tooDeep ? 'the YAML is nested too deeply to read' : `YAML: ${first}`;
     const fix = e.code === 'DUPLICATE_KEY'
       ? 'remove or rename one of the two entries'
+      : tooDeep ? 'a model file needs only a few levels of nesting; remove the extra brackets or indentation'
       : e.code === 'TAG_RESOLVE_FAILED'
         ? 'remove the tag (words starting with !): a model file uses plain YAML values'
         : 'fix the YAML near there (indentation, a missing colon or quote, a tab used for indentation)';

@@ -375,6 +375,86 @@ const cases: Case[] = [
     key: 'inputs.F.delay', words: ['delay of F', 'state x'],
   },
   {
+    name: 'hostile: YAML nested deeper than the parser can follow',
+    text: spring('m: { fixed: 2.5, unit: kg }', `m: ${'['.repeat(5000)}${']'.repeat(5000)}`),
+    line: 9, words: ['nested too deeply'],
+  },
+  {
+    name: 'hostile: more states than the cap',
+    text: `format: 1\nname: many\nstates:\n${Array.from({ length: 501 }, (_, i) => `  s${i}: {}`).join('\n')}\nparameters:\n  a: 1\n`,
+    key: 'states', line: 4, words: ['more than 500 states'],
+  },
+  {
+    name: 'model time_unit that is not a time',
+    text: spring('name: spring-mass', 'name: spring-mass\ntime_unit: m'),
+    key: 'time_unit', line: 3, words: ['time_unit "m" is not a unit of time'],
+  },
+  {
+    name: 'experiment time_unit that is not a time',
+    text: `${SPRING}    time_unit: kg\n`,
+    key: 'experiments[0].time_unit', line: 21, words: ['"kg" is not a unit of time'],
+  },
+  {
+    name: 'sigma must be above 0',
+    text: spring('column: position }', 'column: position, sigma: 0 }'),
+    key: 'outputs.pos.sigma', line: 17, words: ['sigma of pos must be above 0'],
+  },
+  {
+    name: 'window in reverse order',
+    text: `${SPRING}    window: [5, 1]\n`,
+    key: 'experiments[0].window', line: 21, words: ['from < to', '[5, 1]'],
+  },
+  {
+    name: 'two experiments with the same name',
+    text: `${SPRING}  - name: steps\n    file: other.csv\n`,
+    key: 'experiments[1]', line: 21, words: ['two experiments are named "steps"', 'line 19'],
+  },
+  {
+    name: 'experiment without a file',
+    text: `${SPRING}  - name: second\n`,
+    key: 'experiments[1]', line: 21, words: ['experiment 2 has no file'],
+  },
+  {
+    name: 'output without expr whose name is not a state',
+    text: spring('pos: { expr: x, unit: m, column: position }', 'pos: { unit: m, column: position }'),
+    key: 'outputs.pos', line: 17, words: ['output pos has no expr', 'add expr'],
+  },
+  {
+    name: 'negative delay',
+    text: spring('F: { unit: N, column: force }', 'F: { unit: N, column: force, delay: -0.1 }'),
+    key: 'inputs.F.delay', line: 7, words: ['number >= 0'],
+  },
+  {
+    name: 'a delay parameter that may go negative',
+    text: spring('F: { unit: N, column: force }', 'F: { unit: N, column: force, delay: c }').replace('c: { free: [0, 5], unit: N*s/m }', 'c: { free: [-1, 5], unit: s }').replace('c*v', '0*v'),
+    key: 'parameters.c', line: 11, words: ['is a delay', 'cannot be negative'],
+  },
+  {
+    name: 'initial value in an experiment of a static model',
+    text: 'format: 1\nname: curve\nparameters:\n  a: { free: [0, 1] }\ninputs:\n  u: {}\noutputs:\n  y: { expr: a*u }\nexperiments:\n  - name: s\n    file: s.csv\n    initial: { y: 1 }\n',
+    key: 'experiments[0].initial.y', line: 12, words: ['static model', 'no initial values'],
+  },
+  {
+    name: 'experiment initial value for something that is not a state',
+    text: `${SPRING}    initial: { xx: 0 }\n`,
+    key: 'experiments[0].initial.xx', line: 21, words: ['"xx", which is not a state', '"x"'],
+  },
+  {
+    name: 'experiment initial value that uses an input',
+    text: `${SPRING}    initial: { x: F }\n`,
+    key: 'experiments[0].initial.x', line: 21, words: ['initial value of x in experiment steps uses the input F'],
+  },
+  {
+    name: 'set with a value that is not a number',
+    text: `${SPRING}    set: { m: heavy }\n`,
+    key: 'experiments[0].set.m', line: 21, words: ['value of m in experiment steps must be a number'],
+  },
+  {
+    name: 'a required key is missing',
+    text: spring('name: spring-mass\n', ''),
+    key: 'name', line: 1, words: ['no name'],
+  },
+  {
     name: 'override naming an unknown parameter lists the nearest',
     text: SPRING,
     options: { overrides: { kk: 1 } },
