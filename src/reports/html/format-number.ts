@@ -6,7 +6,8 @@ export function formatNumber(x: number | null | undefined, digits = 4): string {
   if (x === 0) return '0';
   const a = Math.abs(x);
   if (a >= 1e-3 && a < 1e6) return String(Number(x.toPrecision(digits)));
-  return x.toExponential(digits - 1).replace('e+', 'e');
+  // Shortest exponent form of the rounded value: 1e-4, not 1.000e-4.
+  return Number(x.toPrecision(digits)).toExponential().replace('e+', 'e');
 }
 
 /** A value with its unit, e.g. "0.0521 N*m/A"; dimensionless values get no unit. */
@@ -27,5 +28,5 @@ export function formatEstimate(x: number | null | undefined, stdError: number | 
   const a = Math.abs(x);
   // Trailing zeros are kept here: they tell the resolution.
   const fixed = x.toPrecision(d);
-  return a >= 1e-3 && a < 1e6 && !fixed.includes('e') ? fixed : formatNumber(x, d);
+  return a >= 1e-3 && a < 1e6 && !fixed.includes('e') ? fixed : x.toExponential(d - 1).replace('e+', 'e');
 }

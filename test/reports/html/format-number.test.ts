@@ -9,10 +9,13 @@ describe('number formatting', () => {
     expect(formatEstimate(1234.5678, 12)).toBe('1235');
     expect(formatEstimate(8.2, 0.004)).toBe('8.2000');
     expect(formatEstimate(2.00064e-4, 3.547e-7)).toBe('2.0006e-4');
+    expect(formatEstimate(2e-4, 3.547e-7)).toBe('2.0000e-4');
     expect(formatEstimate(5, null)).toBe('5');
   });
 
   it('shows missing and non-finite values in words, not as numbers', () => {
+    expect(formatNumber(1e-4)).toBe('1e-4');
+    expect(formatNumber(6.4671e-6, 3)).toBe('6.47e-6');
     expect(formatNumber(null)).toBe('—');
     expect(formatNumber(NaN)).toBe('n/a');
     expect(formatNumber(Infinity)).toBe('∞');
