@@ -204,14 +204,23 @@ function commonAncestor(a: string, b: string): string {
   return pa.slice(0, i).join(path.sep) || path.sep;
 }
 
+/**
+ * Comment text partly comes from the estimates file, which may come from anywhere: no control
+ * character (line breaks above all) may reach the output, where it could end the comment and start
+ * YAML content.
+ */
+function clean(line: string): string {
+  return line.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ');
+}
+
 function appendCommentBefore(pair: Pair, lines: string[]): void {
   const key = pair.key as Scalar;
-  const text = lines.join('\n');
+  const text = lines.map(clean).join('\n');
   key.commentBefore = key.commentBefore ? `${key.commentBefore}\n${text}` : text;
 }
 
 function prependHeader(doc: Document, lines: string[]): void {
-  const header = lines.join('\n');
+  const header = lines.map(clean).join('\n');
   doc.commentBefore = doc.commentBefore ? `${header}\n\n${doc.commentBefore}` : header;
 }
 

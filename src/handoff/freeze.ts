@@ -64,9 +64,11 @@ export function prepareFreeze(options: FreezeOptions): { text: string; outcome: 
   let hashMismatch: FreezeOutcome['hashMismatch'];
   if (estimates.model.sha256 !== model.sha256) {
     if (!options.force) throw hashMismatchError(options, model, estimates);
-    hashMismatch = { model: model.sha256, estimates: estimates.model.sha256 };
+    // Written into a comment below: only a well-formed hash goes through verbatim.
+    const recorded = /^[0-9a-f]{64}$/i.test(estimates.model.sha256) ? estimates.model.sha256 : '(not a SHA-256)';
+    hashMismatch = { model: model.sha256, estimates: recorded };
     warnings.push(
-      `the estimates were made for a model file with sha256 ${estimates.model.sha256}, not this one (${model.sha256}); frozen anyway because of --force`,
+      `the estimates were made for a model file with sha256 ${recorded}, not this one (${model.sha256}); frozen anyway because of --force`,
     );
   }
   if (estimates.fit.status && estimates.fit.status !== 'converged') {

@@ -193,4 +193,19 @@ describe('freezeModelText', () => {
     const { ['w0@coast-down']: _d2, ...rest2 } = estimates.parameters;
     expect(() => freezeModelText(MODEL_TEXT, model, { ...estimates, parameters: rest2 }, options)).toThrow(/w0@coast-down/);
   });
+
+  it('keeps text from a hostile estimates file inside comments', () => {
+    const hostile = {
+      ...estimates,
+      version: '0.1.0\nevil: 1',
+      fit: { ...estimates.fit, date: '2026\r\nparameters: {}\u2028x: 2' },
+      data: [{ experiment: 'steps\n- name: injected', role: 'fit', file: 'a.csv\nformat: 2', sha256: 'b'.repeat(64) }],
+    };
+    const r = freezeModelText(MODEL_TEXT, model, hostile, { ...options, estimatesLabel: 'est\nimates.yaml' });
+    const y = parse(r.text) as any;
+    expect(Object.keys(y)).toEqual(['format', 'name', 'parameters', 'experiments']);
+    expect(y.format).toBe(1);
+    expect(y.experiments.map((e: any) => e.name)).toEqual(['steps', 'coast-down', 'check']);
+    expect(y.parameters.K).toEqual({ fixed: K, unit: 'N*m/A' });
+  });
 });
