@@ -19,6 +19,18 @@ const HEIGHT = 170;
 /** About one pixel column per kept pair (decimate.ts). */
 const COLUMNS = 800;
 
+/** The time span of a log, so that its plots share one x axis whatever the decimation kept. */
+function timeDomain(time: ArrayLike<number>): [number, number] | undefined {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < time.length; i++) {
+    const t = time[i];
+    if (t < lo) lo = t;
+    if (t > hi) hi = t;
+  }
+  return hi > lo ? [lo, hi] : undefined;
+}
+
 function axisLabel(name: string, unit: string | undefined): string {
   return unit && unit !== '1' ? `${name} (${unit})` : name;
 }
@@ -46,7 +58,7 @@ export function measuredSimulatedSpec(p: TimePlotInput): TopLevelSpec {
     data: { values },
     mark: { type: 'line', strokeWidth: 1.2, clip: true },
     encoding: {
-      x: { field: 't', type: 'quantitative', title: axisLabel('time', p.timeUnit), scale: { nice: false, zero: false } },
+      x: { field: 't', type: 'quantitative', title: axisLabel('time', p.timeUnit), scale: { nice: false, zero: false, domain: timeDomain(p.time) } },
       y: { field: 'y', type: 'quantitative', title: axisLabel(p.output, p.unit), scale: { zero: false } },
       color: {
         field: 's',
@@ -68,7 +80,7 @@ export function residualSpec(p: TimePlotInput & { residual: ArrayLike<number> })
     data: { values },
     layer: [
       { mark: { type: 'line', strokeWidth: 1, color: COLOURS.residual, clip: true }, encoding: {
-        x: { field: 't', type: 'quantitative', title: axisLabel('time', p.timeUnit), scale: { nice: false, zero: false } },
+        x: { field: 't', type: 'quantitative', title: axisLabel('time', p.timeUnit), scale: { nice: false, zero: false, domain: timeDomain(p.time) } },
         y: { field: 'y', type: 'quantitative', title: axisLabel('residual', p.unit) },
       } },
       { data: { values: [{ z: 0 }] }, mark: { type: 'rule', color: COLOURS.zero, strokeDash: [3, 3] }, encoding: { y: { field: 'z', type: 'quantitative' } } },
