@@ -32,6 +32,10 @@ export interface WriteResultsOptions {
 
 /** Default results folder: `./<model name>-fit/` below `cwd`. */
 export function defaultResultsFolder(cwd: string, modelName: string): string {
+  // The loader already restricts names; checked again because this one becomes a path.
+  if (!modelName || /[\\/\0]/.test(modelName) || modelName.startsWith('.')) {
+    throw new UserError({ where: { key: 'name' }, what: `the model name "${modelName}" cannot name a results folder`, fix: 'use letters, digits, - and _ in the model name, or give the folder with -o' });
+  }
   return resolve(cwd, `${modelName}-fit`);
 }
 

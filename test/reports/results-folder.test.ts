@@ -147,3 +147,13 @@ describe('summary table', () => {
     expect(formatNumber(0)).toBe('0');
   });
 });
+
+describe('default results folder', () => {
+  it('is <model name>-fit below the working folder and never leaves it', async () => {
+    const { defaultResultsFolder } = await import('../../src/reports/write-results.js');
+    expect(defaultResultsFolder('/work/x', 'rig')).toBe('/work/x/rig-fit');
+    expect(() => defaultResultsFolder('/work/x', '../evil')).toThrow(UserError);
+    expect(() => defaultResultsFolder('/work/x', 'a/b')).toThrow(UserError);
+    expect(() => defaultResultsFolder('/work/x', '.hidden')).toThrow(UserError);
+  });
+});
