@@ -77,17 +77,23 @@ export function buildSensitivitySystem(low: LoweredModel, slots: readonly number
     });
   }
   const eqReads = low.equations.map(readsOf);
-  for (let changed = true; changed; ) {
-    changed = false;
+  // Rows that read state m, so that a non-zero S[m,k] can switch them on (a worklist per column:
+  // linear in the size of the dependency graph).
+  const readers: number[][] = Array.from({ length: n }, () => []);
+  eqReads.forEach((r, i) => r.x.forEach((m) => readers[m]!.push(i)));
+  for (let k = 0; k < q; k++) {
+    const work: number[] = [];
     for (let i = 0; i < n; i++) {
       const r = eqReads[i]!;
-      for (let k = 0; k < q; k++) {
-        if (nz[i * q + k]) continue;
-        const on =
-          r.p.includes(slots[k]!) || r.u.some((j) => low.delaySlot[j] === slots[k]) || r.x.some((j) => nz[j * q + k]);
-        if (on) {
+      if (r.p.includes(slots[k]!) || r.u.some((j) => low.delaySlot[j] === slots[k])) nz[i * q + k] = true;
+      if (nz[i * q + k]) work.push(i);
+    }
+    while (work.length) {
+      const m = work.pop()!;
+      for (const i of readers[m]!) {
+        if (!nz[i * q + k]) {
           nz[i * q + k] = true;
-          changed = true;
+          work.push(i);
         }
       }
     }
@@ -119,9 +125,14 @@ export function buildSensitivitySystem(low: LoweredModel, slots: readonly number
         return pool.ZERO; // time does not depend on parameters
     }
   };
+  const sortedDeps = new Map<number, number[]>();
   const tangent = (raw: number, k: number): number => {
     let sum = pool.ZERO;
-    const symbols = [...diff.deps(raw)].sort((a, b) => a - b);
+    let symbols = sortedDeps.get(raw);
+    if (!symbols) {
+      symbols = [...diff.deps(raw)].sort((a, b) => a - b);
+      sortedDeps.set(raw, symbols);
+    }
     for (const s of symbols) {
       const ts = symbolTangent(s, k);
       if (ts === pool.ZERO) continue;
