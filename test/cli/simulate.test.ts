@@ -141,6 +141,12 @@ describe('rigcal simulate --duration: first-order step response (closed form)', 
     });
   });
 
+  it('refuses --duration for a static model, which has no time (exit 2)', async () => {
+    const run = await rigcal(['simulate', join(models, 'friction-curve.yaml'), '--duration', '10']);
+    expect(run.code).toBe(2);
+    expect(run.stderr).toMatch(/static model/);
+  });
+
   it('refuses a non-positive duration and an unknown input (exit 2)', async () => {
     const bad = await rigcal(['simulate', join(models, 'heated-block.yaml'), '--duration', '-5']);
     expect(bad.code).toBe(2);
@@ -175,6 +181,23 @@ describe('rigcal simulate --params', () => {
     // With J from the experiment's `set` (not the file's fixed J = 1) and Tc from --set, this is the truth.
     const q = qualityRow(run.stdout, 'added-disc', 'speed');
     expect(q.rmse).toBeLessThan(0.2094 * 1.05);
+  });
+
+  it('round trip with `fit`: simulating with its estimates.yaml reproduces the fit\'s own residuals', async () => {
+    // The static friction demo fits in well under a second; its residuals.csv holds the simulated
+    // values at the estimates, which simulate --params must reproduce.
+    const dir = join(scratch.dir, 'roundtrip');
+    const fit = await rigcal(['fit', join(models, 'friction-curve.yaml'), '-o', dir, '--quiet']);
+    expect(fit.code, fit.stderr).toBe(0);
+    const out = join(scratch.dir, 'roundtrip.csv');
+    const run = await rigcal(['simulate', join(models, 'friction-curve.yaml'), '--params', join(dir, 'estimates.yaml'), '-o', out]);
+    expect(run.code, run.stderr).toBe(0);
+    expect(run.stderr).toBe('');
+    const mine = readSimulationCsv(out).byExperiment.get('sweep')!;
+    const residuals = parse(readFileSync(join(dir, 'residuals.csv'), 'utf8'), { columns: true, comment: '#', skip_empty_lines: true }) as Record<string, string>[];
+    const simulatedKey = Object.keys(residuals[0]).find((k) => /simulated/.test(k))!;
+    expect(residuals.length).toBe(mine.torque.length);
+    residuals.forEach((row, i) => expect(mine.torque[i]).toBeCloseTo(Number(row[simulatedKey]), 12));
   });
 
   it('a file that is not an estimates file is an input error (exit 2)', async () => {
