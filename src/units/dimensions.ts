@@ -8,7 +8,9 @@
  * agree, but `deg` is the plain number pi/180 and does not agree with `rad`.
  *
  * The literal 0 agrees with every unit (`max(F, 0)`, `w > 0 ? a : 0`): zero is zero in any unit.
- * Every other bare number is dimensionless.
+ * Inside an expression every other bare number is dimensionless. A whole right side, output
+ * expression or initial value that is only a number (`initial: 20` for a state in degC) is in the
+ * unit of the place it stands in.
  */
 import type { MathNode } from 'mathjs';
 import type { ProblemList } from '../errors.js';
@@ -325,6 +327,7 @@ export function checkModelUnits(model: Model, problems: ProblemList, options: { 
   for (const d of model.defines) symbols.set(d.name, infer(d.expr, `define ${d.name}`));
 
   const expect = (expr: Expr, label: string, side: string, expected: Quantity | undefined, fix: string): void => {
+    if (constantValue(expr.node) !== undefined) return;
     const q = infer(expr, label);
     if (!q || !expected) return;
     const why = mismatch(q, expected);

@@ -222,6 +222,30 @@ equations:
     expect(whats).toContain('the delay of input u is parameter d with unit ms = 0.001 s, expected the time unit s');
   });
 
+  it('a value that is only a number is in the unit of its place', () => {
+    const m = loadText(`format: 1
+name: numbers
+states:
+  T: { unit: degC, initial: 20 }
+  x: { unit: mm, initial: -1.5 }
+parameters:
+  r: { fixed: 2, unit: degC/s }
+equations:
+  T: r
+  x: 3
+outputs:
+  y: { expr: 5, unit: N }
+experiments:
+  - name: a
+    file: a.csv
+    initial: { T: 25 }
+`);
+    expect(m.unitCheck).toBe('checked');
+    // Inside an expression a bare number stays dimensionless.
+    expect(problemsOf(`format: 1\nname: n\nstates:\n  x: { unit: m, initial: 2*1.5 + x0 }\nparameters:\n  x0: { fixed: 0, unit: m }\nequations:\n  x: 0\n`).problems[0].what)
+      .toContain('both sides of "+"');
+  });
+
   it('time t has the model\'s time_unit', () => {
     const m = (tu: string) => `format: 1
 name: ramp

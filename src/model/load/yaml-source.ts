@@ -35,14 +35,15 @@ export function readSourceFile(fileAsGiven: string, absolute: string): SourceFil
     if (err instanceof UserError) throw err;
     throw new UserError({ where, what: 'cannot read the model file: it does not exist or is not readable', fix: 'check the path and the file permissions' });
   }
-  if (size > LIMITS.fileBytes) {
-    throw new UserError({
-      where,
-      what: `the model file is ${(size / 1048576).toFixed(1)} MiB; model files are limited to ${LIMITS.fileBytes / 1048576} MiB`,
-      fix: 'a model file holds equations and parameters only; keep logged data in CSV files named under `experiments`',
-    });
-  }
+  const tooBig = (n: number) => new UserError({
+    where,
+    what: `the model file is ${(n / 1048576).toFixed(1)} MiB; model files are limited to ${LIMITS.fileBytes / 1048576} MiB`,
+    fix: 'a model file holds equations and parameters only; keep logged data in CSV files named under `experiments`',
+  });
+  if (size > LIMITS.fileBytes) throw tooBig(size);
   const bytes = readFileSync(absolute);
+  // The file may have grown since it was measured (a log being written, a pipe).
+  if (bytes.length > LIMITS.fileBytes) throw tooBig(bytes.length);
   let text: string;
   try {
     text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
