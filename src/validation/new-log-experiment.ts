@@ -2,7 +2,8 @@
  * `validate --data FILE.csv`: a log that is not in the model file becomes an extra experiment of a
  * copy of the model, read with the model's column names (inputs' and outputs' `column` and
  * `column_unit`). Time column and time unit are those of the model's first experiment (the usual case:
- * the same logger wrote the new file); without experiments, `t`/`time` in the model's time unit.
+ * the same logger wrote the new file), unless `timeUnit` is given; without experiments, `t`/`time` in
+ * the model's time unit.
  * Per-experiment column renames (`columns`), windows, `set` and `initial` of other experiments do not
  * apply to the new log.
  */
@@ -11,7 +12,7 @@ import path from 'node:path';
 import { UserError } from '../errors.js';
 import type { ExperimentSpec, Model } from '../model/types.js';
 
-export function withNewLog(model: Model, dataFile: string, cwd: string): { model: Model; index: number } {
+export function withNewLog(model: Model, dataFile: string, cwd: string, timeUnit?: string): { model: Model; index: number } {
   const file = path.resolve(cwd, dataFile);
   if (!existsSync(file) || !statSync(file).isFile()) {
     throw new UserError({ where: { file: dataFile }, what: 'no such data file', fix: 'give the path of a CSV log, relative to the current folder' });
@@ -25,7 +26,7 @@ export function withNewLog(model: Model, dataFile: string, cwd: string): { model
     file,
     fileAsWritten: dataFile,
     time: first?.time,
-    timeUnit: first?.timeUnit ?? model.timeUnit,
+    timeUnit: timeUnit ?? first?.timeUnit ?? model.timeUnit,
     role: 'validation',
     set: {},
     initial: {},

@@ -14,6 +14,7 @@ import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
 import { readEstimates, type EstimatesFile } from '../reports/read-estimates.js';
 import { parameterVector } from '../simulation/parameters.js';
+import { parseUnit } from '../units/registry.js';
 import { simulateExperiment } from '../simulation/simulate.js';
 import { VERSION } from '../version.js';
 import { withNewLog } from './new-log-experiment.js';
@@ -26,6 +27,8 @@ export interface ValidateOptions {
   experiments?: string[];
   /** A new log (CSV) read with the model's columns. */
   dataFile?: string;
+  /** Unit of the new log's time column (default: that of the model's first experiment). */
+  dataTimeUnit?: string;
   /** `--set name=value` values (win over the estimates, e.g. a per-experiment initial value of a new log). */
   overrides?: Record<string, number>;
   /** Validate even when the estimates were made for another version of the model file. */
@@ -61,11 +64,17 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
   // Which experiments: named ones, a new log, or every validation experiment of the model file.
   let model = calibrated;
   let indices: number[];
+  if (options.dataTimeUnit !== undefined && !options.dataFile) {
+    throw new UserError({ where: { key: '--time-unit' }, what: '--time-unit applies to a new log given with --data only', fix: 'drop --time-unit, or give --data FILE.csv' });
+  }
+  if (options.dataTimeUnit !== undefined && !parseUnit(options.dataTimeUnit)) {
+    throw new UserError({ where: { key: '--time-unit' }, what: `"${options.dataTimeUnit}" is not a unit rigcal knows`, fix: 'e.g. --time-unit ms' });
+  }
   if (options.dataFile && options.experiments?.length) {
     throw new UserError({ where: { key: '--data' }, what: 'give either -e NAME or --data FILE, not both', fix: 'run validate once per choice' });
   }
   if (options.dataFile) {
-    const extended = withNewLog(calibrated, options.dataFile, cwd);
+    const extended = withNewLog(calibrated, options.dataFile, cwd, options.dataTimeUnit);
     model = extended.model;
     indices = [extended.index];
   } else if (options.experiments?.length) {

@@ -88,6 +88,21 @@ describe('validate on a synthetic rig', () => {
     expect(result.warnings.join('\n')).toMatch(/x0 is estimated per experiment.*start value 0 m/);
   });
 
+  it('reads a new log with its time in another unit given by --time-unit', async () => {
+    const csv = readFileSync(path.join(dir, 'friday', 'held-out.csv'), 'utf8')
+      .split('\n')
+      .map((line) => (/^[0-9]/.test(line) ? line.replace(/^[^,]+/, (t) => String(Math.round(Number(t) * 1000))) : line))
+      .join('\n');
+    writeFileSync(path.join(dir, 'friday-ms.csv'), csv);
+    const s = JSON.parse((await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '--data', 'friday/held-out.csv', '--json', '-o', 'v-s'], dir)).out) as ValidationResult;
+    const r = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '--data', 'friday-ms.csv', '--time-unit', 'ms', '--json', '-o', 'v-ms'], dir);
+    expect(r.code, r.err).toBe(0);
+    const ms = JSON.parse(r.out) as ValidationResult;
+    expect(ms.outputs[0].rmse / s.outputs[0].rmse).toBeCloseTo(1, 8);
+    const wrong = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '--time-unit', 'ms'], dir);
+    expect(wrong.code).toBe(2);
+  });
+
   it('scores an experiment of any role with -e, using its own per-experiment estimate', async () => {
     const r = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '-e', 'bump', '--json', '-o', 'val-bump'], dir);
     expect(r.code, r.err).toBe(0);

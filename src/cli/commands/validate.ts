@@ -11,6 +11,7 @@ interface ValidateCliOptions {
   params: string;
   experiment?: string[];
   data?: string;
+  timeUnit?: string;
   output?: string;
   set?: string[];
   force?: boolean;
@@ -27,6 +28,7 @@ export function register(program: Command, ctx: CommandContext): void {
     .requiredOption('--params <file>', 'estimates.yaml written by `rigcal fit`')
     .option('-e, --experiment <name>', 'an experiment of the model file, of any role (repeatable); default: every validation experiment', collect)
     .option('--data <file>', 'a new log (CSV) read with the model\'s columns; time column and unit as in the model\'s first experiment')
+    .option('--time-unit <unit>', 'unit of the new log\'s time column (with --data; default: as in the model\'s first experiment)')
     .option('-o, --output <dir>', 'folder for validation.json, residuals.csv and report.html (default ./<model name>-validate/)')
     .option('--set <name=value>', 'a parameter value for this run (wins over the estimates), e.g. a per-experiment initial value of a new log', collect)
     .option('--force', 'validate even though the estimates were made for another version of the model file')
@@ -45,6 +47,7 @@ Example:
           estimatesFile: opts.params,
           experiments: opts.experiment,
           dataFile: opts.data,
+          dataTimeUnit: opts.timeUnit,
           overrides: opts.set?.length ? parseOverrides(opts.set) : undefined,
           force: opts.force,
           cwd: ctx.io.cwd,
