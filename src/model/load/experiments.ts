@@ -91,8 +91,9 @@ function readExperiment(st: LoadState, item: YNode, path: string, index: number,
     if (w && w.length !== 2) {
       ctx.problems.add(at(ctx, deref(ctx, windowE.value), windowE.path), `window must be [from, to], got ${w.length} values`, 'write window: [from, to] in the time column\'s unit');
     } else if (w) {
-      const a = readNumber(ctx, w[0], keyPath(windowE.path, 0), 'the start of the window');
-      const b = readNumber(ctx, w[1], keyPath(windowE.path, 1), 'the end of the window');
+      // An open end (.inf / -.inf) means "to the end of the log" / "from its beginning".
+      const a = readNumber(ctx, w[0], keyPath(windowE.path, 0), 'the start of the window', { infinite: true });
+      const b = readNumber(ctx, w[1], keyPath(windowE.path, 1), 'the end of the window', { infinite: true });
       if (a !== undefined && b !== undefined) {
         if (a < b) window = [a, b];
         else ctx.problems.add(at(ctx, deref(ctx, windowE.value), windowE.path), `window must satisfy from < to, got [${a}, ${b}]`, 'write the earlier time first');

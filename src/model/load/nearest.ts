@@ -40,7 +40,8 @@ export function nearest(word: string, candidates: Iterable<string>, limit = 3): 
     const nl = name.toLowerCase();
     let d = editDistance(word, name);
     if (nl === lower) d = 0.5;
-    else if (lower.length >= 3 && (nl.startsWith(lower) || lower.startsWith(nl))) d = Math.min(d, 1.5);
+    // A shared beginning is the commonest typo pattern (sinn -> sin, equation -> equations).
+    else if (Math.min(lower.length, nl.length) >= 3 && (nl.startsWith(lower) || lower.startsWith(nl))) d = Math.min(d, 1.5) - 0.25;
     const allowed = Math.max(2, Math.ceil(Math.max(word.length, name.length) / 3));
     if (d <= allowed) scored.push({ name, d });
   }

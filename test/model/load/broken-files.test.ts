@@ -191,7 +191,7 @@ const cases: Case[] = [
   {
     name: 'unknown function names the nearest allowed ones',
     text: spring('v: (F - k*x - c*v) / m', 'v: sinn(x)'),
-    key: 'equations.v', line: 15, column: 6, words: ['"sinn("', '"sin"'],
+    key: 'equations.v', line: 15, column: 6, words: ['"sinn("', 'did you mean "sin",'],
   },
   {
     name: 'wrong number of arguments',

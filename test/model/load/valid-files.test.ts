@@ -233,7 +233,7 @@ experiments:
     file: logs/run-02.csv
     time: time_ms
     time_unit: ms
-    window: [10, 500]
+    window: [10, .inf]
     start: 0
     initial: { x: 2*xi }
     columns: { F: force_N, speed: v_meas }
@@ -269,7 +269,7 @@ experiments:
     expect(a).toMatchObject({ name: 'run-01', fileAsWritten: 'logs/run-01.csv', timeUnit: 's', role: 'fit', set: {}, initial: {}, columns: {} });
     expect(a.file).toBe(join(dir, 'logs', 'run-01.csv'));
     expect(a.time).toBeUndefined();
-    expect(b).toMatchObject({ name: 'second', time: 'time_ms', timeUnit: 'ms', window: [10, 500], start: 0, columns: { F: 'force_N', speed: 'v_meas' } });
+    expect(b).toMatchObject({ name: 'second', time: 'time_ms', timeUnit: 'ms', window: [10, Infinity], start: 0, columns: { F: 'force_N', speed: 'v_meas' } });
     expect(b.initial.x.text).toBe('2*xi');
     expect(b.initial.x.where.key).toBe('experiments[1].initial.x');
   });
