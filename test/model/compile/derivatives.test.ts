@@ -88,6 +88,18 @@ function slope(text: string, a: number, b = 0): { value: number; da: number; db:
   return { value: y[0]!, da: dy[0]!, db: dy[1]! };
 }
 
+describe('why some rules are ours: what mathjs derivative (15.2) does with them', () => {
+  it('has no rule for sign, min, max, atan2, hypot, comparisons or the conditional', () => {
+    for (const text of ['sign(a)', 'min(a, b)', 'max(a, b)', 'atan2(a, b)', 'hypot(a, b)', 'a < b', 'a > 1 ? a : 2']) {
+      expect(() => derivative(parse(text), 'a', { simplify: false }), text).toThrow();
+    }
+  });
+  it('writes abs(a)/a for abs and a^b (da b/a + db log a) for a variable exponent: NaN at a = 0', () => {
+    expect(derivative(parse('abs(a)'), 'a', { simplify: false }).evaluate({ a: 0 })).toBeNaN();
+    expect(derivative(parse('a ^ b'), 'b', { simplify: false }).evaluate({ a: 0, b: 2 })).toBeNaN();
+  });
+});
+
 describe('one-sided rules at the kinks (model-format.md, Expressions)', () => {
   it('d abs(a) = sign(a) da, so 0 at a = 0 where mathjs derivative gives NaN', () => {
     expect(slope('abs(a)', 2).da).toBe(1);

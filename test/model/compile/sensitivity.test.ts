@@ -123,6 +123,25 @@ describe('structure of the sensitivity system', () => {
     expect([...dy]).toEqual([0.2, 0.3, 0.4]);
   });
 
+  it('shares work: a define and its derivative are computed once for all columns', () => {
+    const cm = compileModel(
+      makeModel({
+        states: { i: 0, w: 'w0' },
+        inputs: { V: {} },
+        params: { R: 1.92, J: 3.1e-3, L: 2e-3, K: 0.05, b: 5e-3, Tc: 0.1, ws: 0.5, w0: 1 },
+        defines: { torque_friction: 'b*w + Tc*tanh(w/ws)' },
+        equations: { i: '(V - R*i - K*w) / L', w: '(K*i - torque_friction) / J' },
+        outputs: { speed: 'w', friction: 'torque_friction' },
+      }),
+    );
+    const src = cm.sensitivity([2, 3, 4, 5, 6, 7]).source;
+    // tanh for the value, cosh for its derivative (mathjs: sech^2), once each for six columns.
+    for (const body of [src.rhs, src.outputs]) {
+      expect(body.match(/Math\.tanh/g)?.length).toBe(1);
+      expect(body.match(/Math\.cosh/g)?.length).toBe(1);
+    }
+  });
+
   it('is compiled once per slot list and validates the slots', () => {
     const cm = decoupled();
     expect(cm.sensitivity([0, 2])).toBe(cm.sensitivity([0, 2]));
