@@ -9,9 +9,9 @@ import type { BenchCase } from '../case.js';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
 
-function simulateAll(modelPath: string, label: string, runs = 10): BenchCase {
+function simulateAll(modelPath: string, label: string, runs = 10, withSensitivities = false): BenchCase {
   return {
-    name: `simulate ${label}`,
+    name: `simulate ${label}${withSensitivities ? ' + sensitivities of every free parameter' : ''}`,
     group: 'simulate',
     runs,
     setup() {
@@ -19,11 +19,13 @@ function simulateAll(modelPath: string, label: string, runs = 10): BenchCase {
       const compiled = compileModel(model);
       const jobs = model.experiments.map((_, k) => ({ data: loadExperimentData(model, k), p: parameterVector(compiled, k) }));
       const samples = jobs.reduce((n, j) => n + j.data.time.length, 0);
+      // The slots a fit asks sensitivities for: every free parameter (per-experiment copies share a slot).
+      const slots = withSensitivities ? model.parameters.filter((q) => q.kind === 'free').map((q) => compiled.paramSlot.get(q.name)!) : undefined;
       return () => {
         let rhsEvaluations = 0;
         let segments = 0;
         for (const { data, p } of jobs) {
-          const r = simulateExperiment(compiled, data, p);
+          const r = simulateExperiment(compiled, data, p, slots ? { sensitivitySlots: slots } : undefined);
           rhsEvaluations += r.stats.rhsEvaluations;
           segments += r.stats.segments;
         }
@@ -39,4 +41,6 @@ export const cases: BenchCase[] = [
   simulateAll('models/shaker-suspension.yaml', 'shaker-suspension (chirp, mm)'),
   simulateAll('models/friction-curve.yaml', 'friction-curve (static)'),
   simulateAll('test/fixtures/models/two-mass.yaml', 'two-mass 4-state linear, 10,000 samples', 20),
+  simulateAll('models/flywheel.yaml', 'flywheel', 3, true),
+  simulateAll('test/fixtures/models/two-mass.yaml', 'two-mass', 10, true),
 ];
