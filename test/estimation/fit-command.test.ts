@@ -1,6 +1,7 @@
 /** `rigcal fit` run in-process: screen output, --json, results folder, exit codes, simulate --params. */
-import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/run.js';
 import type { CliIO } from '../../src/cli/io.js';
@@ -76,6 +77,23 @@ describe('rigcal fit', () => {
     expect(await runCli(['fit', join(dir, 'nothing.yaml')], d.io)).toBe(2);
     const e = io(dir);
     expect(await runCli(['fit', model, '--set', 'nope=1', '-o', join(dir, 'bad')], e.io)).toBe(2);
+  });
+
+  it('refuses a results folder that is not ours before fitting (exit 2), and --set overrides a fixed value', async () => {
+    const foreign = join(dir, 'foreign');
+    mkdirSync(foreign);
+    writeFileSync(join(foreign, 'thesis.txt'), 'precious');
+    const c = io(dir);
+    expect(await runCli(['fit', model, '-o', foreign], c.io)).toBe(2);
+    expect(c.err()).toMatch(/not a results folder of rigcal/);
+    expect(readdirSync(foreign)).toEqual(['thesis.txt']);
+    const s = io(dir);
+    expect(await runCli(['fit', model, '-o', join(dir, 'set'), '--json', '--set', 'Ta=294', '--set', 'T0@cold=296'], s.io)).toBe(0);
+    const fit = JSON.parse(s.out());
+    expect(fit.parameters.find((p: { name: string }) => p.name === 'Ta').estimate).toBe(294);
+    expect(fit.parameters.find((p: { name: string }) => p.name === 'T0@cold').start).toBe(296);
+    expect(fit.provenance.overrides).toEqual({ Ta: 294, 'T0@cold': 296 });
+    expect(parse(readFileSync(join(dir, 'set', 'estimates.yaml'), 'utf8')).overrides).toEqual({ Ta: 294, 'T0@cold': 296 });
   });
 
   it('exit 1 with the reason when the model cannot be simulated at the start values', async () => {
