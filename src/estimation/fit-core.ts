@@ -115,11 +115,12 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
     lower,
     upper,
   };
-  const solveFrom = (start: readonly number[], startIndex: number): SolverResult =>
+  // Progress reports the solver's cost convention: the weighted sum of squared residuals.
+  const solveFrom = (start: readonly number[], startIndex: number, message?: string): SolverResult =>
     deps.solve(lsq, start, {
       maxIterations,
       onIteration: options.onProgress
-        ? (p) => options.onProgress!({ start: startIndex, iteration: p.iteration, cost: p.cost, step: p.step })
+        ? (p) => options.onProgress!({ start: startIndex, iteration: p.iteration, cost: p.cost, step: p.step, ...(message ? { message } : {}) })
         : undefined,
     });
 
@@ -351,7 +352,7 @@ function iterateNoise(
   problem: EstimationProblem,
   noise: ReturnType<typeof initialNoise>,
   first: SolverResult,
-  solveFrom: (start: readonly number[], startIndex: number) => SolverResult,
+  solveFrom: (start: readonly number[], startIndex: number, message?: string) => SolverResult,
 ): SolveSummary {
   let run = first;
   let iterations = 0;
@@ -365,7 +366,7 @@ function iterateNoise(
     if (change < SIGMA_TOLERANCE) return { run, iterations, rounds, sigmaConverged: true };
     if (rounds >= MAX_SIGMA_ROUNDS) return { run, iterations, rounds, sigmaConverged: false };
     problem.setSigmas(next);
-    const again = solveFrom(run.theta, 1);
+    const again = solveFrom(run.theta, 1, `refit ${rounds + 1} with the estimated noise levels`);
     iterations += again.iterations;
     rounds++;
     if (again.status === 'failed') return { run, iterations, rounds, sigmaConverged: false };

@@ -73,7 +73,7 @@ export function register(program: Command, ctx: CommandContext): void {
         let lastLine = 0;
         const onProgress = showProgress
           ? (p: FitProgress) => {
-              const line = `start ${p.start}  iteration ${p.iteration}  cost ${p.cost.toPrecision(6)}  step ${p.step.toPrecision(2)}`;
+              const line = `${p.message ?? `start ${p.start}`}  iteration ${p.iteration}  cost ${p.cost.toPrecision(6)}  step ${p.step.toPrecision(2)}`;
               io.stderr(`\r${line.padEnd(lastLine)}`);
               lastLine = line.length;
             }
