@@ -9,10 +9,12 @@
  * experiment's `set` carries that experiment's estimate.
  */
 import path from 'node:path';
+import { isDeepStrictEqual } from 'node:util';
 import { Pair, Scalar, YAMLMap, YAMLSeq, isMap, isScalar, isSeq, parseDocument, type Document } from 'yaml';
 import { UserError, type Problem } from '../errors.js';
 import type { FreeParameterSpec, Model } from '../model/types.js';
 import type { EstimateEntry, EstimatesFile } from '../reports/read-estimates.js';
+import { spliceFreeze } from './freeze-splice.js';
 
 export interface FreezeDocumentOptions {
   /** Folder the frozen file will be written to (absolute): relative data paths are rewritten for it. */
@@ -39,36 +41,68 @@ export interface FreezeSummary {
 /** Keys of a free parameter that a fixed one must not carry. */
 const FREE_ONLY_KEYS = ['free', 'start', 'scale', 'per_experiment'];
 
+/** What freeze changes, decided once and applied either to the source text or to the Document. */
+export interface FreezePlan {
+  /** Parameters whose entry becomes `fixed: value`, with the comment lines to put above them. */
+  params: { name: string; value: number; unit: string; comment: string[] }[];
+  /** Per experiment: values to add to its `set`. */
+  sets: { experiment: string; entries: [string, number][] }[];
+  /** Experiments whose data path changes. */
+  paths: { experiment: string; file: string }[];
+  header: string[];
+}
+
 export function freezeModelText(
   sourceText: string,
   model: Model,
   estimates: EstimatesFile,
   options: FreezeDocumentOptions,
-): { text: string; summary: FreezeSummary } {
+): { text: string; summary: FreezeSummary; edited: 'source' | 'document' } {
+  const { plan, summary } = planFreeze(model, estimates, options);
   const doc = parseDocument(sourceText);
   if (doc.errors.length) {
     // The model loaded, so this cannot happen unless the file changed in between.
     throw new UserError({ where: { file: model.fileAsGiven }, what: `changed while rigcal read it: ${doc.errors[0].message}`, fix: 'run freeze again' });
   }
-  const params = doc.get('parameters', true);
-  if (!isMap(params)) throw new UserError({ where: { file: model.fileAsGiven, key: 'parameters' }, what: 'is not a mapping', fix: 'run `rigcal check` on the model' });
+  const documentText = applyToDocument(doc, model, plan, sourceText);
+  // Preferred: the user's bytes with only the planned spans changed (alignment, wrapping and quoting
+  // all kept). Taken only when it reads back exactly as the Document edit does; otherwise (a layout
+  // the splicer does not handle, e.g. a one-line flow mapping of parameters) the Document edit stands.
+  const spliced = spliceFreeze(sourceText, plan);
+  if (spliced !== undefined && sameContent(spliced, documentText)) return { text: spliced, summary, edited: 'source' };
+  return { text: documentText, summary, edited: 'document' };
+}
 
+function sameContent(a: string, b: string): boolean {
+  const da = parseDocument(a);
+  const db = parseDocument(b);
+  if (da.errors.length || db.errors.length) return false;
+  return isDeepStrictEqual(da.toJS(), db.toJS());
+}
+
+function planFreeze(model: Model, estimates: EstimatesFile, options: FreezeDocumentOptions): { plan: FreezePlan; summary: FreezeSummary } {
   const byName = new Map(Object.entries(estimates.parameters));
   const problems: Problem[] = [];
   const summary: FreezeSummary = { frozen: [], perExperiment: [], changedFixed: [], movedPaths: [] };
+  const plan: FreezePlan = { params: [], sets: [], paths: [], header: [] };
   const source = sourceLine(estimates, options);
   const fitExperiments = model.experiments.filter((e) => e.role === 'fit');
+  const addSet = (experiment: string, name: string, value: number) => {
+    let s = plan.sets.find((x) => x.experiment === experiment);
+    if (!s) plan.sets.push((s = { experiment, entries: [] }));
+    s.entries.push([name, value]);
+  };
 
   for (const spec of model.parameters) {
-    const pair = findPair(params, spec.name);
-    if (!pair) continue; // cannot happen for a loaded model
     if (spec.kind === 'fixed') {
       const row = byName.get(spec.name);
       if (row && row.value !== spec.value) {
-        setFixed(doc, pair, row.value, spec.unit);
-        appendCommentBefore(pair, [
-          ` ${spec.name} = ${show(row.value)}${unitSuffix(spec.unit)} as used by the fit (the model file said ${show(spec.value)}); ${source}`,
-        ]);
+        plan.params.push({
+          name: spec.name,
+          value: row.value,
+          unit: spec.unit,
+          comment: [` ${spec.name} = ${show(row.value)}${unitSuffix(spec.unit)} as used by the fit (the model file said ${show(spec.value)}); ${source}`],
+        });
         summary.changedFixed.push(spec.name);
       }
       continue;
@@ -79,8 +113,12 @@ export function freezeModelText(
         problems.push(missingRow(estimates, spec.name));
         continue;
       }
-      setFixed(doc, pair, row.value, spec.unit);
-      appendCommentBefore(pair, [` frozen: ${spec.name} = ${show(row.value)}${unitSuffix(spec.unit)}, ${describeEstimate(row, spec)}`, ` ${source}`]);
+      plan.params.push({
+        name: spec.name,
+        value: row.value,
+        unit: spec.unit,
+        comment: [` frozen: ${spec.name} = ${show(row.value)}${unitSuffix(spec.unit)}, ${describeEstimate(row, spec)}`, ` ${source}`],
+      });
       summary.frozen.push(spec.name);
       continue;
     }
@@ -92,25 +130,53 @@ export function freezeModelText(
       else rows.push({ experiment: e.name, row });
     }
     if (rows.length !== fitExperiments.length) continue;
-    setFixed(doc, pair, spec.start, spec.unit);
-    for (const { experiment, row } of rows) setExperimentValue(doc, model, experiment, spec.name, row.value);
-    appendCommentBefore(pair, [
-      ` frozen: ${spec.name} was estimated per experiment; each experiment's \`set\` holds its estimate:`,
-      ...rows.map(({ experiment, row }) => `   ${experiment}: ${show(row.value)}${unitSuffix(spec.unit)}, ${describeEstimate(row, spec)}`),
-      ` experiments without an estimate of their own (validation runs, new logs) use the start value`,
-      ` ${show(spec.start)}${unitSuffix(spec.unit)} written here; set their own value where it is known.`,
-      ` ${source}`,
-    ]);
+    for (const { experiment, row } of rows) addSet(experiment, spec.name, row.value);
+    plan.params.push({
+      name: spec.name,
+      value: spec.start,
+      unit: spec.unit,
+      comment: [
+        ` frozen: ${spec.name} was estimated per experiment; each experiment's \`set\` holds its estimate:`,
+        ...rows.map(({ experiment, row }) => `   ${experiment}: ${show(row.value)}${unitSuffix(spec.unit)}, ${describeEstimate(row, spec)}`),
+        ` experiments without an estimate of their own (validation runs, new logs) use the start value`,
+        ` ${show(spec.start)}${unitSuffix(spec.unit)} written here; set their own value where it is known.`,
+        ` ${source}`,
+      ],
+    });
     summary.perExperiment.push(spec.name);
   }
   if (problems.length) throw new UserError(problems);
+  for (const e of model.experiments) {
+    if (path.isAbsolute(e.fileAsWritten)) continue;
+    const newPath = pathFrom(options.outputDir, e.file);
+    if (newPath !== e.fileAsWritten) plan.paths.push({ experiment: e.name, file: newPath });
+  }
+  summary.movedPaths = plan.paths.map((p) => ({ ...p }));
+  plan.header = headerLines(model, estimates, options);
+  for (const p of plan.params) p.comment = p.comment.map(clean);
+  plan.header = plan.header.map(clean);
+  return { plan, summary };
+}
 
-  summary.movedPaths = rewriteDataPaths(doc, model, options.outputDir);
-  prependHeader(doc, headerLines(model, estimates, options));
+function applyToDocument(doc: Document, model: Model, plan: FreezePlan, sourceText: string): string {
+  const params = doc.get('parameters', true);
+  if (!isMap(params)) throw new UserError({ where: { file: model.fileAsGiven, key: 'parameters' }, what: 'is not a mapping', fix: 'run `rigcal check` on the model' });
+  for (const p of plan.params) {
+    const pair = findPair(params, p.name);
+    if (!pair) continue; // cannot happen for a loaded model
+    setFixed(doc, pair, p.value, p.unit);
+    appendCommentBefore(pair, p.comment);
+  }
+  for (const s of plan.sets) for (const [name, value] of s.entries) setExperimentValue(doc, model, s.experiment, name, value);
+  for (const m of plan.paths) {
+    const node = experimentNode(doc, m.experiment)?.get('file', true);
+    if (isScalar(node)) node.value = m.file;
+  }
+  prependHeader(doc, plan.header);
   // Folded text (descriptions) is re-wrapped by the printer: at the width of the user's longest line
   // it keeps their wrapping as far as the Document API allows (alignment spaces are not kept).
   const longest = sourceText.split(/\r?\n/).reduce((w, line) => Math.max(w, line.length), 0);
-  return { text: doc.toString({ lineWidth: Math.max(80, longest), minContentWidth: 0 }), summary };
+  return doc.toString({ lineWidth: Math.max(80, longest), minContentWidth: 0 });
 }
 
 function missingRow(estimates: EstimatesFile, name: string): Problem {
@@ -169,22 +235,6 @@ function experimentNode(doc: Document, name: string): YAMLMap | undefined {
   return undefined;
 }
 
-/** Relative data paths are relative to the model file; keep them valid from the output's folder. */
-function rewriteDataPaths(doc: Document, model: Model, outputDir: string): { experiment: string; file: string }[] {
-  const moved: { experiment: string; file: string }[] = [];
-  for (const e of model.experiments) {
-    if (path.isAbsolute(e.fileAsWritten)) continue;
-    const newPath = pathFrom(outputDir, e.file);
-    if (newPath === e.fileAsWritten) continue;
-    const item = experimentNode(doc, e.name);
-    const node = item?.get('file', true);
-    if (!item || !isScalar(node)) continue;
-    node.value = newPath;
-    moved.push({ experiment: e.name, file: newPath });
-  }
-  return moved;
-}
-
 /**
  * The data file's path as seen from `outputDir`: relative when the two share a folder below the
  * file system's root, absolute otherwise (a chain of `../` up to the root helps nobody).
@@ -215,12 +265,12 @@ function clean(line: string): string {
 
 function appendCommentBefore(pair: Pair, lines: string[]): void {
   const key = pair.key as Scalar;
-  const text = lines.map(clean).join('\n');
+  const text = lines.join('\n');
   key.commentBefore = key.commentBefore ? `${key.commentBefore}\n${text}` : text;
 }
 
 function prependHeader(doc: Document, lines: string[]): void {
-  const header = lines.map(clean).join('\n');
+  const header = lines.join('\n');
   doc.commentBefore = doc.commentBefore ? `${header}\n\n${doc.commentBefore}` : header;
 }
 

@@ -50,7 +50,7 @@ describe.each(files)('freeze of models/%s', (file) => {
     const model = loadModel(modelFile);
     const estimates = madeUpEstimates(model);
     const outDir = mkdtempSync(path.join(tmpdir(), 'rigcal-freeze-demo-'));
-    const { text } = freezeModelText(source, model, estimates, { outputDir: outDir, estimatesLabel: 'estimates.yaml', estimatesSha256: '0'.repeat(64), date: '2026-12-01T00:00:00.000Z', toolVersion: '0.1.0' });
+    const { text, edited } = freezeModelText(source, model, estimates, { outputDir: outDir, estimatesLabel: 'estimates.yaml', estimatesSha256: '0'.repeat(64), date: '2026-12-01T00:00:00.000Z', toolVersion: '0.1.0' });
     const out = path.join(outDir, file);
     writeFileSync(out, text);
     const frozen = loadModel(out);
@@ -84,10 +84,17 @@ describe.each(files)('freeze of models/%s', (file) => {
       const { file: _f2, set: _s2, ...restB } = b.experiments[i];
       expect(restB).toEqual(restA);
     });
-    // The user's comments are all still there.
+    // Edited in the user's bytes: every line freeze does not own is there verbatim (comments,
+    // alignment, wrapping of descriptions).
+    expect(edited).toBe('source');
+    const owned = new Set(model.parameters.filter((p) => p.kind === 'free').map((p) => p.name));
+    const outLines = new Set(text.split('\n'));
+    let inFree = false;
     for (const line of source.split('\n')) {
-      const hash = line.indexOf('#');
-      if (hash >= 0 && !/["']/.test(line)) expect(text).toContain(line.slice(hash).trimEnd());
+      const key = /^ {2}([A-Za-z][A-Za-z0-9_]*):/.exec(line)?.[1];
+      if (key !== undefined || /^\S/.test(line)) inFree = key !== undefined && owned.has(key);
+      if (inFree || /^\s*(file|set):/.test(line)) continue;
+      expect(outLines.has(line), line).toBe(true);
     }
   });
 });

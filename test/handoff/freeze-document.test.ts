@@ -127,22 +127,44 @@ describe('freezeModelText', () => {
     expect(text).toMatch(/start value\n\s*# 0\.25 rad\/s written here/);
   });
 
-  it('keeps the user\'s comments and layout', () => {
-    for (const comment of [
+  it('keeps the user\'s bytes outside the changed spans: comments, alignment, blank lines', () => {
+    expect(freezeModelText(MODEL_TEXT, model, estimates, options).edited).toBe('source');
+    for (const line of [
       '# Flywheel scenario of our own (test fixture).',
-      'name: flywheel-rig # short name',
-      '# measured on the bench',
-      '# the motor constant: unknown',
-      '# from the data sheet, roughly',
-      '# viscous friction',
-      '# relative to this model file',
-      '# added disc',
+      'name: flywheel-rig   # short name',
+      '  R:    { fixed: 1.92, unit: ohm }               # measured on the bench',
+      '  J:    { fixed: 3.1e-3, unit: kg*m^2 }',
+      '  # the motor constant: unknown',
+      '  K:    { fixed: 0.052103847561029384, unit: N*m/A }   # from the data sheet, roughly',
+      '  b:\n    fixed: 0.00012345678901234567\n    unit: N*m*s/rad       # viscous friction\n',
+      '  w0:   { fixed: 0.25, unit: rad/s }\n\nexperiments:\n',
+      '    file: ../demo-data/steps.csv     # relative to this model file\n    set: { w0: -0.3141592653589793 }\n',
+      '    set: { J: 3.4e-3, w0: 1.4142135623730951 }     # added disc',
     ]) {
-      expect(text).toContain(comment);
+      expect(text).toContain(line);
     }
-    // Flow maps stay flow maps, block maps stay block maps.
-    expect(text).toMatch(/ {2}K: \{ fixed: 0\.052103847561029384, unit: N\*m\/A \}/);
-    expect(text).toMatch(/ {2}b:\n {4}fixed: 0\.00012345678901234567\n/);
+    // The comments of removed keys go with them (they spoke of bounds that no longer apply).
+    expect(text).not.toContain('wide on purpose');
+    // Everything after the header is the user's file with only the planned changes.
+    const body = text.slice(text.indexOf('# Flywheel scenario'));
+    const untouched = MODEL_TEXT.split('\n').filter((l) => !/^\s*(K|b|w0):|^\s*(free|scale):|set:/.test(l));
+    for (const l of untouched) expect(body.split('\n')).toContain(l);
+  });
+
+  it('keeps Windows line ends', () => {
+    const r = freezeModelText(MODEL_TEXT.replace(/\n/g, '\r\n'), model, estimates, options);
+    expect(r.edited).toBe('source');
+    expect(r.text).not.toMatch(/[^\r]\n/);
+    expect(parse(r.text)).toEqual(frozen);
+  });
+
+  it('falls back to the Document edit for layouts it cannot splice, with the same content', () => {
+    const flow = MODEL_TEXT.replace(/parameters:\n[\s\S]*?\n\nexperiments:/, 'parameters: { R: { fixed: 1.92, unit: ohm }, J: { fixed: 3.1e-3, unit: kg*m^2 }, K: { free: [1e-3, 1], start: 0.05, unit: N*m/A }, b: { free: [1e-6, 1e-2], scale: log, unit: N*m*s/rad }, w0: { free: [-5, 5], start: 0.25, unit: rad/s, per_experiment: true } }\n\nexperiments:');
+    expect(flow).not.toBe(MODEL_TEXT);
+    const r = freezeModelText(flow, model, estimates, options);
+    expect(r.edited).toBe('document');
+    expect(parse(r.text)).toEqual(frozen);
+    expect(r.text).toContain('# added disc');
   });
 
   it('comments each frozen parameter with its interval, standard error and provenance', () => {
@@ -176,8 +198,8 @@ describe('freezeModelText', () => {
     expect(path.resolve('/rig/handoff/v1', y.experiments[1].file)).toBe('/rig/demo-data/coast.csv');
     expect(y.experiments[2].file).toBe('/data/check.csv');
     expect(other.summary.movedPaths.map((m) => m.experiment)).toEqual(['steps', 'coast-down']);
-    // The comment beside the rewritten path survives.
-    expect(other.text).toMatch(/file: \.\.\/\.\.\/demo-data\/steps\.csv # relative to this model file/);
+    // The comment beside the rewritten path survives, at its column.
+    expect(other.text).toContain('    file: ../../demo-data/steps.csv     # relative to this model file');
   });
 
   it('writes a fixed value the fit used when it differs from the model file (a --set at fit time)', () => {
