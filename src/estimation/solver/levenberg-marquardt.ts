@@ -133,9 +133,14 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
       atBound: boundStatus(theta, lower, upper),
     };
   }
-  let r = first.residuals;
   let J = first.jacobian;
-  nResiduals = r.length;
+  nResiduals = first.residuals.length;
+  // The cost is always taken from `residuals`, the same path that evaluates the trial points: for
+  // ODE models the simulation with sensitivities takes other integration steps, and its cost can
+  // differ by a relative 1e-6; comparing trials with it would reject every small step near the
+  // optimum. One plain evaluation at the start buys that consistency.
+  const firstPlain = evaluate(theta, false);
+  let r = firstPlain.ok ? firstPlain.residuals : first.residuals;
   let fnorm = norm2(r);
 
   // Scaling: column norms, a zero column counting as 1 (MINPACK), then a running maximum.
@@ -269,7 +274,7 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
           const withJ = evaluate(trial, true);
           if (withJ.ok && withJ.jacobian) {
             theta = trial;
-            r = withJ.residuals;
+            r = ev.residuals; // the plain evaluation's residuals: see the start
             J = withJ.jacobian;
             fnorm = norm2(r);
             xnorm = scaledNorm(D, theta);
@@ -290,6 +295,9 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
         accepted,
         radius: delta,
         damping,
+        stepDamping: ds.damping,
+        predictedReduction: ev.ok ? prered : Number.NaN,
+        actualReduction: ev.ok ? actred : Number.NaN,
       });
 
       // Stopping tests (MINPACK's, in words).
@@ -300,11 +308,17 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
       }
       if (ev.ok) {
         const costDone = Math.abs(actred) <= ftol && prered <= ftol && 0.5 * ratio <= 1;
+        // A full (undamped, unprojected) Gauss-Newton step that predicts less than ftol is a
+        // certificate of convergence whatever the actual change: when rounding or integration noise
+        // in the cost exceeds ftol, |actred| would never pass, and the run would end only after the
+        // trust region had been shrunk to the step tolerance by rejected (noise-driven) trials.
+        const newtonDone = !costDone && ds.damping === 0 && !projected.clipped && prered <= ftol && actred <= ftol;
         const stepDone = delta <= xtol * xnorm || delta === 0;
-        if (costDone || stepDone) {
-          reason = costDone && stepDone ? 'cost-and-step' : costDone ? 'cost' : 'step';
+        if (costDone || newtonDone || stepDone) {
+          reason = (costDone || newtonDone) && stepDone ? 'cost-and-step' : costDone || newtonDone ? 'cost' : 'step';
           const parts: string[] = [];
           if (costDone) parts.push(`relative cost change below ${fmt(ftol)}`);
+          if (newtonDone) parts.push(`relative cost change predicted by a full Gauss-Newton step below ${fmt(ftol)}`);
           if (stepDone) parts.push(`relative step below ${fmt(xtol)}`);
           message = parts.join(' and ');
           return finish();

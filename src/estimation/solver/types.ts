@@ -48,6 +48,11 @@ export interface SolverProgress {
   /** Trust-region radius and Levenberg-Marquardt damping after this trial. */
   radius: number;
   damping: number;
+  /** Damping the trial step was computed with (0: a full Gauss-Newton step). */
+  stepDamping: number;
+  /** Relative cost reduction predicted by the linear model and achieved (NaN when the trial failed). */
+  predictedReduction: number;
+  actualReduction: number;
 }
 
 export interface SolverOptions {
