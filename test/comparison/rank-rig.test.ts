@@ -138,6 +138,15 @@ experiments:
     expect(j.nested![0]).toMatchObject({ smaller: 'line', larger: 'parabola', dof: 1 });
   });
 
+  it('passes --starts and --seed to every fit and rejects a bad count', async () => {
+    const r = await cli(['rank', 'line.yaml', 'parabola.yaml', '--json', '--starts', '3', '--seed', '11'], dir);
+    expect(r.code, r.err).toBe(0);
+    expect((JSON.parse(r.out) as RankJson).preferred).toBe('parabola');
+    const bad = await cli(['rank', 'line.yaml', 'parabola.yaml', '--starts', '0'], dir);
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/--starts must be an integer of at least 1/);
+  });
+
   it('prints the table by default', async () => {
     const r = await cli(['rank', 'parabola.yaml', 'line.yaml'], dir);
     expect(r.code, r.err).toBe(0);

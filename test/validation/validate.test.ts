@@ -86,6 +86,13 @@ describe('validate on a synthetic rig', () => {
     expect(result.outputs[0].rmse).toBeLessThan(1.15 * NOISE_MM * 1e-3);
     // x0 is per experiment: the new log has no estimate of its own and the start value is said.
     expect(result.warnings.join('\n')).toMatch(/x0 is estimated per experiment.*start value 0 m/);
+    // A known value for the new log, given with --set, is used and silences the warning.
+    const withSet = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '--data', 'friday/held-out.csv', '--set', 'x0=0.001', '--json', '-o', 'val-new-set'], dir);
+    expect(withSet.code, withSet.err).toBe(0);
+    const r2 = JSON.parse(withSet.out) as ValidationResult;
+    expect(r2.parameters['x0@held-out-2']).toBe(0.001);
+    expect(r2.warnings.join('\n')).not.toMatch(/x0/);
+    expect(r2.outputs[0].rmse).toBeGreaterThan(result.outputs[0].rmse); // the log started at 0
   });
 
   it('reads a new log with its time in another unit given by --time-unit', async () => {
