@@ -9,18 +9,15 @@ import type { Model, ParameterSpec } from '../types.js';
 import { orderDefines, readDefines } from './defines.js';
 import { finishExperiment, readExperiments } from './experiments.js';
 import { readInputs } from './inputs.js';
-import { LIMITS } from './limits.js';
 import { newLoadState } from './load-state.js';
-import { labelProblem } from './names.js';
 import { finishOutputs, readOutputs } from './outputs.js';
 import { applyOverrides } from './overrides.js';
 import { readParameters } from './parameters.js';
 import { checkDelays, checkNames, timeVaryingDefines } from './references.js';
 import { readEquations, readStates } from './states.js';
-import { checkUnitStrings, timeUnitProblem } from './unit-strings.js';
-import {
-  at, byKey, deref, isNullish, mapEntries, parseYaml, readChoice, readNumber, readSourceFile, readString,
-} from './yaml-source.js';
+import { checkUnitStrings } from './unit-strings.js';
+import { readHeader, requireKey } from './header.js';
+import { at, byKey, isNullish, mapEntries, parseYaml, readSourceFile } from './yaml-source.js';
 
 export { parseOverrides } from './overrides.js';
 
@@ -62,47 +59,14 @@ function load(file: string, options: LoadOptions): Model {
   const top = mapEntries(ctx, ctx.doc.contents, '', 'the model file', TOP_LEVEL_KEYS);
   if (!top) problems.throwIfAny();
   const k = byKey(top!);
-  const required = (key: string, fix: string) => {
-    if (!k.has(key) || isNullish(ctx, k.get(key)!.value)) problems.add({ ...rootWhere, key }, `the model file has no ${key}`, fix);
-  };
 
-  // format, name, description, time_unit, units
-  required('format', 'add format: 1 as the first line');
-  const formatE = k.get('format');
-  if (formatE && !isNullish(ctx, formatE.value)) {
-    const f = readNumber(ctx, formatE.value, 'format', 'format', { integer: true });
-    if (f !== undefined && f !== 1) problems.add(at(ctx, deref(ctx, formatE.value), 'format'), `format ${f} is not supported; this version reads format 1`, 'write format: 1 (and the keys of format 1)');
-  }
-  required('name', 'add name: <short name>; it names the default output folders');
-  const nameE = k.get('name');
-  let name = nameE && !isNullish(ctx, nameE.value) ? readString(ctx, nameE.value, 'name', 'name') ?? '' : '';
-  if (name) {
-    const bad = labelProblem(name);
-    if (bad) {
-      problems.add(at(ctx, deref(ctx, nameE!.value), 'name'), `model name: ${bad}`, 'the name becomes part of output folder names; use e.g. flywheel-rig');
-      name = '';
-    }
-  }
-  const descE = k.get('description');
-  const description = descE && !isNullish(ctx, descE.value) ? readString(ctx, descE.value, 'description', 'description', LIMITS.textChars) ?? '' : '';
-  const timeE = k.get('time_unit');
-  let timeUnit = 's';
-  if (timeE) {
-    const tu = readString(ctx, timeE.value, 'time_unit', 'time_unit', LIMITS.unitChars);
-    if (tu !== undefined) {
-      const bad = timeUnitProblem(tu);
-      if (bad) problems.add(at(ctx, deref(ctx, timeE.value), 'time_unit'), bad, 'use s, ms, min or h');
-      else timeUnit = tu;
-    }
-  }
-  const unitsE = k.get('units');
-  const units = unitsE ? readChoice(ctx, unitsE.value, 'units', 'units', ['check', 'off'] as const) ?? 'check' : 'check';
+  const { name, description, timeUnit, units } = readHeader(ctx, k, rootWhere);
 
   // Declarations, in the order that gives the clearest messages about clashes.
   const nullable = (key: string) => (k.has(key) && !isNullish(ctx, k.get(key)!.value) ? k.get(key)!.value : undefined);
   const states = nullable('states') !== undefined ? readStates(st, nullable('states')) : [];
   const inputs = nullable('inputs') !== undefined ? readInputs(st, nullable('inputs')) : [];
-  required('parameters', 'add a parameters section: name: { fixed: value } or name: { free: [min, max] }');
+  requireKey(ctx, k, rootWhere, 'parameters', 'add a parameters section: name: { fixed: value } or name: { free: [min, max] }');
   let parameters: ParameterSpec[] = nullable('parameters') !== undefined ? readParameters(st, nullable('parameters')) : [];
   const defines = nullable('define') !== undefined ? readDefines(st, nullable('define')) : [];
   const stateNames = new Set(states.map((s) => s.name));
@@ -161,7 +125,8 @@ function load(file: string, options: LoadOptions): Model {
 
   const overrides = { ...(options.overrides ?? {}) };
   const otherNames = new Map([...st.declared].filter(([, d]) => d.kind !== 'parameter').map(([n, d]) => [n, d.kind]));
-  const brokenParameters = new Set([...st.declared].filter(([n, d]) => d.kind === 'parameter' && !parameters.some((p) => p.name === n)).map(([n]) => n));
+  const loaded = new Set(parameters.map((p) => p.name));
+  const brokenParameters = new Set([...st.declared].filter(([n, d]) => d.kind === 'parameter' && !loaded.has(n)).map(([n]) => n));
   parameters = applyOverrides(overrides, parameters, experiments, otherNames, problems, brokenParameters);
 
   checkUnitStrings(st, units === 'check');

@@ -4,7 +4,7 @@
  * `name@experiment` overrides stay in `model.overrides` for whoever builds the parameter vector.
  * An experiment's own `set` still applies to that experiment (it describes that test's rig).
  */
-import { ProblemList, UserError, type SourceLocation } from '../../errors.js';
+import { ProblemList, type SourceLocation } from '../../errors.js';
 import type { ExperimentSpec, ParameterSpec } from '../types.js';
 import { NAME_PATTERN } from './names.js';
 import { suggestion } from './nearest.js';
