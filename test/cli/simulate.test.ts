@@ -241,6 +241,12 @@ describe('rigcal simulate -o: never an input file, written whole or not at all',
     expect(readdirSync(dir).sort()).toEqual(['blowup.yaml', 'old.csv']);
   });
 
+  it('a missing output folder is an input error (exit 2), not a crash', async () => {
+    const run = await rigcal(['simulate', join(root, 'test/fixtures/models/ref-shaker.yaml'), '-e', 'chirp', '-o', join(scratch.dir, 'no/such/folder/x.csv')]);
+    expect(run.code).toBe(2);
+    expect(run.stderr).toMatch(/does not exist/);
+  });
+
   it('without -o the CSV goes to standard output and the quality table to standard error', async () => {
     const run = await rigcal(['simulate', join(root, 'test/fixtures/models/ref-shaker.yaml'), '-e', 'chirp']);
     expect(run.code).toBe(0);

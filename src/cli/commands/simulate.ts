@@ -7,7 +7,7 @@
  * `--params estimates.yaml` (estimated values only), then `--set` (wins over everything).
  */
 import { existsSync, realpathSync, statSync } from 'node:fs';
-import { isAbsolute, resolve } from 'node:path';
+import { dirname, isAbsolute, resolve } from 'node:path';
 import type { Command } from 'commander';
 import { UserError, type Problem } from '../../errors.js';
 import type { ExperimentData } from '../../data/types.js';
@@ -108,6 +108,11 @@ function refuseOverwritingInputs(output: string, model: Model, paramsFile: strin
       throw new UserError({ where: { key: '-o' }, what: `-o ${output} is an input of this run (${f}); rigcal never overwrites a model, data or estimates file`, fix: 'write the simulation to a new file, e.g. -o simulation.csv' });
     }
   }
+  // Checked before simulating, so that a long run does not end in a path mistake.
+  const folder = dirname(resolve(output));
+  if (!existsSync(folder) || !statSync(folder).isDirectory()) {
+    throw new UserError({ where: { key: '-o' }, what: `cannot write ${output}: the folder ${folder} does not exist`, fix: 'create the folder first, or write the CSV elsewhere' });
+  }
   if (existsSync(target) && statSync(target).isDirectory()) {
     throw new UserError({ where: { key: '-o' }, what: `-o ${output} is a folder`, fix: 'give a file name, e.g. -o simulation.csv' });
   }
@@ -186,7 +191,7 @@ export function runSimulate(modelArg: string, options: SimulateOptions, ctx: Com
   const csv = renderSimulationCsv(model, runs);
   const quality = renderQuality(model, runs);
   if (outputPath) {
-    writeFileAtomic(outputPath, csv);
+    writeOutput(outputPath, options.output!, csv);
     io.stdout(`wrote ${options.output} (${runs.reduce((n, r) => n + r.result.time.length, 0)} rows)\n`);
     if (quality) io.stdout(quality);
   } else {
@@ -194,6 +199,19 @@ export function runSimulate(modelArg: string, options: SimulateOptions, ctx: Com
     if (quality) io.stderr(quality);
   }
   return 0;
+}
+
+/** Writes the CSV whole or not at all; a folder that is missing or not writable is the user's to mend. */
+function writeOutput(path: string, asGiven: string, csv: string): void {
+  try {
+    writeFileAtomic(path, csv);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === 'EACCES' || code === 'EPERM' || code === 'EROFS' || code === 'EISDIR' || code === 'ENOTDIR') {
+      throw new UserError({ where: { key: '-o' }, what: `cannot write ${asGiven} (${code})`, fix: 'choose a file in a folder you may write to' });
+    }
+    throw err;
+  }
 }
 
 function selectExperiments(model: Model, names: string[]): number[] {
