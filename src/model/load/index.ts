@@ -9,6 +9,7 @@ import type { Model, ParameterSpec } from '../types.js';
 import { orderDefines, readDefines } from './defines.js';
 import { finishExperiment, readExperiments } from './experiments.js';
 import { readInputs } from './inputs.js';
+import { LIMITS } from './limits.js';
 import { newLoadState } from './load-state.js';
 import { finishOutputs, readOutputs } from './outputs.js';
 import { applyOverrides } from './overrides.js';
@@ -153,6 +154,11 @@ function load(file: string, options: LoadOptions): Model {
   // Symbols that are undeclared or carry an unknown unit are skipped by the unit check, so a broken
   // name is reported once (above), not again as a unit problem.
   model.unitCheck = checkModelUnits(model, problems, { skip: st.badNames });
+  const extra = problems.items.length - LIMITS.problemsShown;
+  if (extra > 0) {
+    problems.items.splice(LIMITS.problemsShown);
+    problems.add({ file }, `... and ${extra} more problems`, 'mend the problems above first; the rest may be consequences of them');
+  }
   problems.throwIfAny();
   return model;
 }

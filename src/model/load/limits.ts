@@ -28,4 +28,6 @@ export const LIMITS = {
   /** Characters of free text (description) and of strings such as file and column names. */
   textChars: 20_000,
   stringChars: 1000,
+  /** Problems listed in one error (a broken file can have thousands; the first ones suffice). */
+  problemsShown: 200,
 } as const;

@@ -505,6 +505,13 @@ describe('broken and hostile model files', () => {
     expect(keys).toEqual(expect.arrayContaining(['equation', 'parameters.m.fxied', 'parameters.c.free', 'experiments[0].name', 'equations']));
   });
 
+  it('lists at most 200 problems, then says how many more there are', () => {
+    const text = spring('parameters:\n', `parameters:\n${Array.from({ length: 300 }, (_, i) => `  p${i}: { fixd: 1 }`).join('\n')}\n`);
+    const { problems } = problemsOf(text);
+    expect(problems).toHaveLength(201);
+    expect(problems[200].what).toMatch(/^\.\.\. and \d+ more problems$/);
+  });
+
   it('refuses an oversized file before parsing it', () => {
     const big = Buffer.alloc(1024 * 1024 + 10, '#');
     const { problems } = problemsOf(big);
