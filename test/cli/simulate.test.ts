@@ -178,6 +178,7 @@ describe('rigcal simulate --params', () => {
     expect(run.code).toBe(0);
     // The fitted model file differs (sha256 "0"): a note on standard error, not a failure.
     expect(run.stderr).toMatch(/different version/);
+    expect(run.stderr).not.toMatch(/has no estimate/);
     // With J from the experiment's `set` (not the file's fixed J = 1) and Tc from --set, this is the truth.
     const q = qualityRow(run.stdout, 'added-disc', 'speed');
     expect(q.rmse).toBeLessThan(0.2094 * 1.05);
@@ -198,6 +199,15 @@ describe('rigcal simulate --params', () => {
     const simulatedKey = Object.keys(residuals[0]).find((k) => /simulated/.test(k))!;
     expect(residuals.length).toBe(mine.torque.length);
     residuals.forEach((row, i) => expect(mine.torque[i]).toBeCloseTo(Number(row[simulatedKey]), 12));
+  });
+
+  it('says which free parameters the estimates file lacks (they run at their start values)', async () => {
+    const est = join(scratch.dir, 'partial.yaml');
+    writeFileSync(est, ['tool: rigcal', 'model: { name: flywheel, sha256: "0" }', 'fit: { status: stopped }', 'parameters:', '  K: { value: 0.08, status: estimated }', ''].join('\n'));
+    const run = await rigcal(['simulate', join(models, 'flywheel.yaml'), '-e', 'steps', '--params', est, '--set', 'Tc=0.012', '-o', join(scratch.dir, 'partial.csv')]);
+    expect(run.code).toBe(0);
+    expect(run.stderr).toMatch(/has no estimate of L, b; using the start values/);
+    expect(run.stderr).toMatch(/status stopped/);
   });
 
   it('a file that is not an estimates file is an input error (exit 2)', async () => {

@@ -147,6 +147,13 @@ export function runSimulate(modelArg: string, options: SimulateOptions, ctx: Com
     io.stderr(`rigcal: note: ${options.params} was fitted to a different version of ${model.fileAsGiven} (SHA-256 differs)\n`);
   }
   if (fromEstimates.note) io.stderr(`rigcal: note: ${fromEstimates.note}\n`);
+  if (paramsFile) {
+    // A free parameter the estimates do not hold (e.g. added to the model after the fit) runs at its start.
+    const lacking = model.parameters
+      .filter((q) => q.kind === 'free' && !q.perExperiment && !(q.name in fromEstimates.values) && !(q.name in overrides))
+      .map((q) => q.name);
+    if (lacking.length) io.stderr(`rigcal: note: ${options.params} has no estimate of ${lacking.join(', ')}; using the start value${lacking.length > 1 ? 's' : ''}\n`);
+  }
   const outputPath = options.output ? resolve(io.cwd, options.output) : undefined;
   if (outputPath) refuseOverwritingInputs(outputPath, model, paramsFile);
 
