@@ -162,7 +162,9 @@ export function handModel(spec: HandSpec): CompiledModel {
 export function handData(compiled: CompiledModel, time: ArrayLike<number>, inputs: ArrayLike<number>[], start?: number, index = 0): ExperimentData {
   const t = Float64Array.from(time);
   return {
-    experiment: compiled.model.experiments[index],
+    experiment: compiled.model.experiments[index] ?? {
+      name: 'in-memory', file: '', fileAsWritten: '', timeUnit: compiled.model.timeUnit, role: 'fit', set: {}, initial: {}, columns: {}, where: {},
+    },
     index,
     sha256: '',
     time: t,
