@@ -220,13 +220,13 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
       valueByName[e.name] = values[k];
     });
   }
-  for (const e of entries) {
-    if (problem.nResiduals > entries.length && unc.stdError[entries.indexOf(e)] === null) {
-      warnings.push(`${e.name} is not determined by these data: no standard error or interval (see identifiability)`);
-    }
-  }
   for (const p of ident.problems) warnings.push(p.message);
   for (const w of ident.warnings) if (!warnings.includes(w)) warnings.push(w);
+  const undetermined = entries.filter((_, k) => unc.stdError[k] === null).map((e) => e.name);
+  if (undetermined.length && problem.nResiduals > entries.length) {
+    const list = undetermined.length === 1 ? undetermined[0] : `${undetermined.slice(0, -1).join(', ')} and ${undetermined[undetermined.length - 1]}`;
+    warnings.push(`no standard error or interval for ${list}: the data do not determine ${undetermined.length === 1 ? 'it' : 'them'} separately; ${undetermined.length === 1 ? 'its value is' : 'their values are'} one of many that fit equally well`);
+  }
 
   // 5. Statistics with the final weighting.
   const sums = perOutputSums(problem, run.residuals);
