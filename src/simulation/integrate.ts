@@ -17,7 +17,7 @@ import { Outcome, Solver } from './vendor/odex.js';
 import { RunFailure } from '../errors.js';
 import type { CompiledModel, SensitivitySystem } from '../model/compiled-types.js';
 import { InputTrack } from './input-track.js';
-import { diagnoseStepLimit } from './stiffness.js';
+import { diagnoseStepLimit, stiffnessWarning } from './stiffness.js';
 import { tolerances } from './tolerances.js';
 import type { SimulationOptions, SimulationResult, SimulationStats } from './types.js';
 
@@ -307,9 +307,20 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
     }
   }
 
+  // A run that succeeded but crawled: say so when the model looks stiff (slow, and a sign that the
+  // fast part might be better modelled as quasi-steady).
+  const warnings: string[] = [];
+  if (stats.steps > Math.max(20_000, 5 * M)) {
+    const xEnd = z.subarray(0, n);
+    for (const j of linearIdx) tracks[j].fill(tEnd, u, udot, j);
+    const w = stiffnessWarning(compiled, tEnd, Float64Array.from(xEnd), u, p, drive.start, tEnd, stats.steps);
+    if (w) warnings.push(`experiment ${drive.name}: ${w}`);
+  }
+
   return {
     experiment: drive.name,
     time: drive.time,
+    warnings: warnings.length ? warnings : undefined,
     states,
     outputs,
     sensitivities: slots ? { slots: [...slots], outputs: sensOut! } : undefined,

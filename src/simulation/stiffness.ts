@@ -94,3 +94,31 @@ export function diagnoseStepLimit(
     text: `step limit reached ${where} after ${steps} steps of ${fmt(meanStep)} ${unit} on average: the solution changes very fast there, or a parameter value makes the model misbehave`,
   };
 }
+
+/**
+ * For a run that succeeded with many steps: words when the model looks stiff (time constants
+ * more than 1e3 apart and the steps held near the fastest one), else undefined.
+ */
+export function stiffnessWarning(
+  compiled: CompiledModel,
+  t: number,
+  x: Float64Array,
+  u: Float64Array,
+  p: Float64Array,
+  from: number,
+  to: number,
+  steps: number,
+): string | undefined {
+  const taus = timeConstants(compiled, t, x, u, p);
+  if (taus.length < 2) return undefined;
+  const fastest = taus[taus.length - 1];
+  const slowest = taus[0];
+  const meanStep = (to - from) / steps;
+  if (slowest / fastest < 1e3 || meanStep > 20 * fastest) return undefined;
+  const unit = compiled.model.timeUnit;
+  return (
+    `the model looks stiff between t=${fmt(from)} and ${fmt(to)} ${unit}: time constants differ by ~1e${Math.round(Math.log10(slowest / fastest))} ` +
+    `(fastest ${fmt(fastest)} ${unit}, slowest ${fmt(slowest)} ${unit}), so it took ${steps} steps of about ${fmt(meanStep)} ${unit}; ` +
+    'making the fast part quasi-steady would make it faster'
+  );
+}

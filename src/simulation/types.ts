@@ -22,6 +22,8 @@ export interface SimulationResult {
    */
   sensitivities?: { slots: readonly number[]; outputs: Float64Array[] };
   stats: SimulationStats;
+  /** Things the user should know about a simulation that succeeded (e.g. it looks stiff). */
+  warnings?: string[];
 }
 
 export interface SimulationOptions {

@@ -216,3 +216,17 @@ describe('closed-form responses', () => {
     expect(r.states).toEqual([]);
   });
 });
+
+describe('stiffness words on a run that succeeds', () => {
+  it('an RL circuit 1e4 faster than its inertia simulates, with a warning that it looks stiff', () => {
+    // time constants L/R = 1e-4 s and J/b = 1 s
+    const c = rlInertia(1e-4, 1, 0.5, 1, 1);
+    const t = linspace(0, 20, 201);
+    const r = simulateExperiment(c, handData(c, t, [new Float64Array(201).fill(12)]), c.defaultParams());
+    expect(r.stats.steps).toBeGreaterThan(20000);
+    expect(r.warnings?.[0]).toMatch(/looks stiff between t=0 and 20 s: time constants differ by ~1e4/);
+    // and a model that is not stiff gets no warning
+    const easy = rlInertia(0.5, 1, 0.5, 1, 1);
+    expect(simulateExperiment(easy, handData(easy, t, [new Float64Array(201).fill(12)]), easy.defaultParams()).warnings).toBeUndefined();
+  });
+});
