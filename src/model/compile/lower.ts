@@ -51,7 +51,11 @@ export function lowerModel(model: Model, maxNodes?: number): LoweredModel {
   // are ordinary keys here.
   const bindings = new Map<string, Binding>();
   const declare = (name: string, binding: Binding, where: SourceLocation) => {
-    if (bindings.has(name) || name === 't') {
+    if (name === 't') {
+      problems.add(where, 'the name "t" is reserved for time', 'choose another name');
+      return;
+    }
+    if (bindings.has(name)) {
       problems.add(where, `the name ${JSON.stringify(name)} is declared twice`, 'give every state, input, parameter and define its own name');
       return;
     }
