@@ -26,29 +26,30 @@ import { writeFileAtomic } from '../../util/atomic-write.js';
 import type { CommandContext } from '../io.js';
 
 interface SimulateOptions {
-  experiment: string[];
-  set: string[];
+  experiment?: string[];
+  set?: string[];
   params?: string;
   output?: string;
   duration?: string;
   interval?: string;
-  input: string[];
+  input?: string[];
 }
 
-const collect = (value: string, previous: string[]) => [...previous, value];
+// No default list in the option definitions: commander would print "(default: [])" in the help.
+const collect = (value: string, previous: string[] | undefined) => [...(previous ?? []), value];
 
 export function register(program: Command, ctx: CommandContext): void {
   program
     .command('simulate')
     .description('integrate the model for its experiments (their inputs and time stamps) or over a given span; write a CSV and print the fit quality per output')
     .argument('<model>', 'the model file (YAML)')
-    .option('-e, --experiment <name>', 'simulate only this experiment (repeat for several); default: all', collect, [])
-    .option('--set <name=value>', 'use this parameter value for this run, in the parameter\'s unit; name@experiment=value for a per-experiment copy (repeatable)', collect, [])
+    .option('-e, --experiment <name>', 'simulate only this experiment (repeat for several); default: all', collect)
+    .option('--set <name=value>', 'use this parameter value for this run, in the parameter\'s unit; name@experiment=value for a per-experiment copy (repeatable)', collect)
     .option('--params <file>', 'take the estimated values from a results file of `rigcal fit` (estimates.yaml)')
     .option('-o, --output <file.csv>', 'write the CSV here (written whole or not at all); default: standard output')
     .option('--duration <T>', 'simulate from t = 0 over this span (in the model\'s time unit) without data')
     .option('--interval <dt>', 'with --duration: time between output rows (default: duration / 1000)')
-    .option('--input <name=value>', 'with --duration: a constant input value in the input\'s unit (repeatable; default 0)', collect, [])
+    .option('--input <name=value>', 'with --duration: a constant input value in the input\'s unit (repeatable; default 0)', collect)
     .addHelpText('after', [
       '',
       'The CSV has the columns experiment, time (in the experiment\'s time unit), every output (model',
@@ -60,7 +61,8 @@ export function register(program: Command, ctx: CommandContext): void {
       '  rigcal simulate models/flywheel.yaml --params flywheel-fit/estimates.yaml --set Tc=0.01 -o sim.csv',
       '  rigcal simulate models/heated-block.yaml --duration 3600 --interval 10 --input P=40 --input Ta=295',
     ].join('\n'))
-    .action(ctx.action((modelArg: string, options: SimulateOptions) => runSimulate(modelArg, options, ctx)));
+    .action(ctx.action((modelArg: string, options: SimulateOptions) =>
+      runSimulate(modelArg, { ...options, experiment: options.experiment ?? [], set: options.set ?? [], input: options.input ?? [] }, ctx)));
 }
 
 function pathFromCwd(path: string, cwd: string): string {
@@ -136,7 +138,7 @@ function parseConstantInputs(model: Model, pairs: string[]): Float64Array {
   return u;
 }
 
-export function runSimulate(modelArg: string, options: SimulateOptions, ctx: CommandContext): number {
+export function runSimulate(modelArg: string, options: Required<Pick<SimulateOptions, 'experiment' | 'set' | 'input'>> & SimulateOptions, ctx: CommandContext): number {
   const { io } = ctx;
   const overrides = parseOverrides(options.set);
   const model = loadModel(pathFromCwd(modelArg, io.cwd), { overrides });
