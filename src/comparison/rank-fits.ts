@@ -137,7 +137,8 @@ function scoreCandidate(c: CandidateFit): RankedModel {
     whiteness: c.outcome.residuals
       .filter((s) => s.role === 'fit')
       .map((s) => {
-        const d = residualDiagnostics(s, [], { timeUnit: c.model.timeUnit });
+        // Static models: rows are not time, so lags stay in rows.
+        const d = residualDiagnostics(s, [], { timeUnit: c.model.isStatic ? undefined : c.model.timeUnit });
         return { experiment: s.experiment, output: s.output, white: d.whiteness?.white ?? null, pValue: d.whiteness?.pValue ?? null, verdict: d.verdict };
       }),
   };
@@ -180,8 +181,8 @@ function nestedTests(models: readonly RankedModel[]): NestedTest[] {
       dof: t.dof,
       pValue: t.pValue,
       verdict: significant
-        ? `${large.name} fits significantly better than ${small.name} (p ${fmtP(t.pValue).startsWith('<') ? '' : '= '}${fmtP(t.pValue)} < ${LRT_ALPHA}): its extra parameters are supported`
-        : `${large.name} does not fit significantly better than ${small.name} (p = ${fmtP(t.pValue)} >= ${LRT_ALPHA}): keep the simpler model`,
+        ? `${large.name} fits significantly better than ${small.name} at the ${LRT_ALPHA * 100} % level: its extra parameters are supported`
+        : `${large.name} does not fit significantly better than ${small.name} at the ${LRT_ALPHA * 100} % level: keep the simpler model`,
     });
   }
   return tests;

@@ -122,7 +122,7 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
       const s: ResidualSeries = { experiment: exp.name, role: 'validation', output: o.name, unit: o.unit, time: d.time, measured, simulated: sim.outputs[j] };
       series.push(s);
       const score = scoreSeries(measured, sim.outputs[j]);
-      const diag = residualDiagnostics(s, model.inputs.map((inp, k) => ({ name: inp.name, values: d.inputs[k] })), { timeUnit: model.timeUnit });
+      const diag = residualDiagnostics(s, model.inputs.map((inp, k) => ({ name: inp.name, values: d.inputs[k] })), { timeUnit: model.isStatic ? undefined : model.timeUnit });
       outputs.push({
         experiment: exp.name,
         output: o.name,
@@ -151,6 +151,7 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
     model: { name: model.name, file: options.modelFile, sha256: loaded.sha256 },
     estimates: { file: options.estimatesFile, modelSha256: estimates.model.sha256, fitDate: estimates.fit.date, fitStatus: estimates.fit.status },
     timeUnit: model.timeUnit,
+    isStatic: model.isStatic,
     data,
     outputs,
     parameters: used,

@@ -22,7 +22,7 @@ export type NoiseLevels = Record<string, { sigma: number; estimated: boolean }>;
 export async function renderValidationReport(result: ValidationResult, series: readonly ResidualSeries[], noise: NoiseLevels = {}): Promise<string> {
   const shown: ShownOutput[] = series.map((s) => {
     const score = result.outputs.find((o) => o.experiment === s.experiment && o.output === s.output);
-    const d = residualDiagnostics(s, [], { timeUnit: result.timeUnit });
+    const d = residualDiagnostics(s, [], { timeUnit: result.isStatic ? undefined : result.timeUnit });
     const out: OutputResult = {
       experiment: s.experiment,
       output: s.output,

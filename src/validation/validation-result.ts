@@ -39,6 +39,8 @@ export interface ValidationResult {
   model: { name: string; file: string; sha256: string };
   estimates: { file: string; modelSha256: string; fitDate: string; fitStatus: string };
   timeUnit: string;
+  /** A static model: rows are not time (lags in the diagnostics count rows). */
+  isStatic: boolean;
   data: ValidationData[];
   outputs: ValidationOutputScore[];
   /** Values used for the parameters, by name (`name@experiment` for per-experiment copies). */

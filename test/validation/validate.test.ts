@@ -4,7 +4,8 @@
  * the RMSE must come out near the noise level we added (0.5 mm) and the residuals white; the model
  * without damper must score worse.
  */
-import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/run.js';
@@ -12,7 +13,7 @@ import { fitModel } from '../../src/estimation/fit.js';
 import { loadModel } from '../../src/model/load/index.js';
 import { writeResults } from '../../src/reports/write-results.js';
 import type { ValidationResult } from '../../src/validation/validation-result.js';
-import { NOISE_MM, modelText, writeRigData } from '../comparison/synthetic-rig.js';
+import { NOISE_MM, gaussian, modelText, mulberry32, writeRigData } from '../comparison/synthetic-rig.js';
 
 async function cli(args: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
   let out = '';
@@ -128,5 +129,43 @@ describe('validate on a synthetic rig', () => {
     expect(f.code).toBe(2);
     expect(f.err).toMatch(/not a validation folder/);
     expect(existsSync(path.join(dir, 'friday', 'validation.json'))).toBe(false);
+  });
+});
+
+describe('validate a static model', () => {
+  it('scores a calibration curve on a new sweep, lags counted in rows', async () => {
+    // A calibration curve of our own: y = 2 x + 0.5 x^2 with seeded noise 0.01; fitted on one sweep,
+    // scored on another (different x points and noise).
+    const dir = mkdtempSync(path.join(tmpdir(), 'rigcal-static-val-'));
+    const noise = gaussian(mulberry32(5));
+    const sweep = (n: number, offset: number) =>
+      ['x,y', ...Array.from({ length: n }, (_, i) => { const x = (i + offset) / n; return `${x},${2 * x + 0.5 * x * x + 0.01 * noise()}`; })].join('\n') + '\n';
+    writeFileSync(path.join(dir, 'fit.csv'), sweep(60, 0));
+    writeFileSync(path.join(dir, 'new.csv'), sweep(50, 0.5));
+    writeFileSync(path.join(dir, 'curve.yaml'), `# Synthetic calibration curve of our own (test data).
+format: 1
+name: curve
+inputs:
+  x: { unit: '' }
+parameters:
+  a: { free: [-10, 10], start: 1 }
+  b: { free: [-10, 10], start: 0 }
+outputs:
+  y: { expr: a*x + b*x^2, unit: '' }
+experiments:
+  - name: sweep
+    file: fit.csv
+`);
+    writeResults(path.join(dir, 'curve-fit'), fitModel(loadModel(path.join(dir, 'curve.yaml'))), { outputs: ['y'] });
+    const r = await cli(['validate', 'curve.yaml', '--params', 'curve-fit/estimates.yaml', '--data', 'new.csv', '--json'], dir);
+    expect(r.code, r.err).toBe(0);
+    const result = JSON.parse(r.out) as ValidationResult;
+    expect(result.isStatic).toBe(true);
+    expect(result.outputs[0].samples).toBe(50);
+    // Only the noise is left: RMSE about 0.01 (sample RMSE of 50 deviates: within about +-25 %).
+    expect(result.outputs[0].rmse).toBeGreaterThan(0.0075);
+    expect(result.outputs[0].rmse).toBeLessThan(0.0125);
+    expect(result.outputs[0].verdict).not.toMatch(/ s\b/);
+    expect(existsSync(path.join(dir, 'curve-validate', 'validation.json'))).toBe(true);
   });
 });
