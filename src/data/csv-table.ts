@@ -50,7 +50,13 @@ export function detectDelimiter(header: string): Delimiter {
  * Read `path` (shown to the user as `shown`) and stream its rows to `handlers`. Throws UserError for
  * unreadable, oversized or malformed files; errors raised by the handlers pass through.
  */
-export function readCsv(path: string, shown: string, handlers: CsvReadHandlers): CsvReadInfo {
+export function readCsv(
+  path: string,
+  shown: string,
+  handlers: CsvReadHandlers,
+  limits: { maxBytes: number; maxRows: number } = { maxBytes: MAX_DATA_FILE_BYTES, maxRows: MAX_DATA_ROWS },
+): CsvReadInfo {
+  const { maxBytes, maxRows } = limits;
   let size: number;
   try {
     size = statSync(path).size;
@@ -61,10 +67,10 @@ export function readCsv(path: string, shown: string, handlers: CsvReadHandlers):
       fix: 'check the `file` path of the experiment; it is relative to the model file',
     });
   }
-  if (size > MAX_DATA_FILE_BYTES) {
+  if (size > maxBytes) {
     throw new UserError({
       where: { file: shown },
-      what: `the data file is ${mib(size)}, more than the ${mib(MAX_DATA_FILE_BYTES)} rigcal reads into memory`,
+      what: `the data file is ${mib(size)}, more than the ${mib(maxBytes)} rigcal reads into memory`,
       fix: 'decimate the log or split it into several experiments (each a file of its own)',
     });
   }
@@ -94,10 +100,10 @@ export function readCsv(path: string, shown: string, handlers: CsvReadHandlers):
           handlers.header(record, ctx.lines);
         } else {
           rows++;
-          if (rows > MAX_DATA_ROWS) {
+          if (rows > maxRows) {
             throw new UserError({
               where: { file: shown, line: ctx.lines },
-              what: `the data file has more than ${MAX_DATA_ROWS.toLocaleString('en-US')} data rows, the most rigcal reads`,
+              what: `the data file has more than ${maxRows.toLocaleString('en-US')} data rows, the most rigcal reads`,
               fix: 'decimate the log or split it into several experiments',
             });
           }

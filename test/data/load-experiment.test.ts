@@ -164,3 +164,24 @@ describe('loadExperimentData', () => {
     expect(e.message).toMatch(/log\.csv.*cannot read the data file: ENOENT/);
   });
 });
+
+describe('readCsv', () => {
+  it('refuses files over the size and row caps with a clear message', () => {
+    const file = csvFile('cap.csv', 't,u\n0,1\n1,1\n2,1\n');
+    const noop = { header: () => {}, row: () => {} };
+    expect(() => readCsv(file, 'cap.csv', noop, { maxBytes: 10, maxRows: 100 })).toThrow(/the data file is 0\.0 MiB, more than the 0\.0 MiB rigcal reads into memory/);
+    const e = userError(() => readCsv(file, 'cap.csv', noop, { maxBytes: 1e6, maxRows: 2 }));
+    expect(e.message).toMatch(/more than 2 data rows/);
+    expect(e.problems[0].where.line).toBe(4);
+  });
+
+  it('reads CRLF line ends and a byte-order mark', () => {
+    const file = csvFile('crlf.csv', '\uFEFFt;u\r\n0;1\r\n1;2\r\n');
+    const rows: string[][] = [];
+    let header: string[] = [];
+    const info = readCsv(file, 'crlf.csv', { header: (h) => (header = h), row: (r) => rows.push(r) });
+    expect(header).toEqual(['t', 'u']);
+    expect(rows).toEqual([['0', '1'], ['1', '2']]);
+    expect(info.delimiter).toBe(';');
+  });
+});
