@@ -13,9 +13,11 @@
  *   stops when the remaining step is about 1e-6 standard errors, which is what the NIST StRD
  *   problems need for 6 correct digits on weakly determined parameters (ENSO, Thurber, MGH09 stop
  *   with 4-5 digits at 1e-10, because Gauss-Newton converges only linearly on large-residual
- *   problems). It is about 50 rounding units of the sum; when rounding or integration noise in the
- *   cost is larger, trial steps get rejected, the trust radius shrinks by 10 each time, and the
- *   step test below ends the run a few evaluations later.
+ *   problems). It is about 50 rounding units of the sum. When rounding or integration noise in the
+ *   cost is larger, the actual change never passes it; a full (undamped) Gauss-Newton step whose
+ *   predicted relative reduction is below it then counts as convergence (the linear model says
+ *   nothing is left to gain), and otherwise rejected trials shrink the trust radius by 10 each until
+ *   the step test below ends the run.
  * - 1e-10 on the relative step (trust radius against ||D theta||), 1e-10 on the scaled gradient
  *   (the largest cosine between a Jacobian column and the residual vector, MINPACK's measure).
  * - A first trust radius of 100 times the scaled length of the start vector (MINPACK's factor),

@@ -171,3 +171,39 @@ describe('solveLeastSquares', () => {
     expect(res.theta[1]).toBeCloseTo(1.5, 8);
   });
 });
+
+describe('solveLeastSquares with a noisy cost (as from adaptive ODE integration)', () => {
+  // y = a exp(b x) fitted to data with a small misfit; the plain path adds a deterministic but
+  // discontinuous relative error of about 1e-13 to the model (rounding-like noise that makes the
+  // cost jitter by about 1e-11, well above the 1e-14 cost tolerance), and the Jacobian path returns
+  // residuals whose model differs from the plain one by a relative 1e-6 (as a simulation with
+  // sensitivities, which takes other integration steps, does).
+  const x = Array.from({ length: 21 }, (_, i) => i / 20);
+  const y = x.map((xi) => 2 * Math.exp(1.5 * xi) + 0.01 * Math.sin(40 * xi)); // a small misfit, nonzero optimum cost
+  const jitter = (t: readonly number[], i: number) => {
+    const h = Math.sin((t[0]! * 1e9 + t[1]! * 7e9 + i * 13.1) % 1e4) * 43758.5453;
+    return (h - Math.floor(h) - 0.5) * 2e-13;
+  };
+  const model = (t: readonly number[], xi: number) => t[0]! * Math.exp(t[1]! * xi);
+  const problem: LeastSquaresProblem = {
+    residuals: (t) => x.map((xi, i) => y[i]! - model(t, xi) * (1 + jitter(t, i))),
+    residualsAndJacobian: (t) => ({
+      residuals: x.map((xi, i) => y[i]! - model(t, xi) * (1 + 1e-6)),
+      jacobian: x.map((xi) => [-Math.exp(t[1]! * xi), -t[0]! * xi * Math.exp(t[1]! * xi)]),
+    }),
+  };
+
+  it('converges in a few steps instead of shrinking the trust region trial after trial', () => {
+    const res = solveLeastSquares(problem, [1, 1]);
+    expect(res.status).toBe('converged');
+    expect(res.theta[0]).toBeCloseTo(2, 2);
+    expect(res.theta[1]).toBeCloseTo(1.5, 2);
+    expect(res.reason === 'cost' || res.reason === 'cost-and-step').toBe(true);
+    expect(res.message).toContain('relative cost change');
+    // A rejected first trial (far start) and at most one noise-rejected trial at the end.
+    expect(res.iterations).toBeLessThanOrEqual(9);
+    expect(res.iterations - res.acceptedSteps).toBeLessThanOrEqual(2);
+    // The cost reported is the plain path's, the one the trials were compared with.
+    expect(res.cost).toBeCloseTo(Array.from(problem.residuals(res.theta)!).reduce((s, r) => s + r * r, 0), 15);
+  });
+});
