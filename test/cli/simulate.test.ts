@@ -113,6 +113,18 @@ describe('rigcal simulate: units, delays and per-experiment values end to end', 
     expect(q.rmse).toBeLessThan(2e-5 * 1.05);
   });
 
+  it('a plain --set of a per-experiment parameter applies to the experiment simulated (same as name@experiment)', async () => {
+    const plain = join(scratch.dir, 'shaker-plain.csv');
+    const run = await rigcal(['simulate', join(models, 'shaker-suspension.yaml'), '-e', 'chirp', '--set', 'k=4000', '--set', 'c=10', '--set', 'offset=3.5e-4', '-o', plain]);
+    expect(run.code).toBe(0);
+    const a = readSimulationCsv(plain).byExperiment.get('chirp')!;
+    const specific = join(scratch.dir, 'shaker-specific.csv');
+    expect((await rigcal(['simulate', join(models, 'shaker-suspension.yaml'), '-e', 'chirp', '--set', 'k=4000', '--set', 'c=10', '--set', 'offset@chirp=3.5e-4', '-o', specific])).code).toBe(0);
+    const b = readSimulationCsv(specific).byExperiment.get('chirp')!;
+    expect(a.lvdt).toEqual(b.lvdt);
+    expect(a.lvdt[0]).toBeCloseTo(3.5e-4, 12);
+  });
+
   it('static model (friction curve): one row per log row, RMSE equals the 0.002 N*m noise', async () => {
     const run = await rigcal(['simulate', join(models, 'friction-curve.yaml'), '--set', 'Tc=0.05', '--set', 'Ts=0.08', '--set', 'vst=2', '--set', 'b=4e-4', '-o', join(scratch.dir, 'friction.csv')]);
     expect(run.code).toBe(0);
