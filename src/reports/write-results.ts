@@ -58,7 +58,9 @@ export function assertReplaceable(folder: string): void {
   if (!ours) {
     throw new UserError({ where: { file: folder }, what: 'this folder exists and is not a results folder of rigcal (no fit.json of ours inside); it will not be replaced', fix });
   }
-  const foreign = entries.filter((e) => !(RESULT_FILES as readonly string[]).includes(e));
+  // Leftovers of an interrupted atomic write of one of our files (".fit.json.tmp-...") are ours too.
+  const ourTemp = (e: string) => RESULT_FILES.some((f) => e.startsWith(`.${f}.tmp-`));
+  const foreign = entries.filter((e) => !(RESULT_FILES as readonly string[]).includes(e) && !ourTemp(e));
   if (foreign.length) {
     throw new UserError({ where: { file: folder }, what: `the previous results folder holds files rigcal did not write (${foreign.slice(0, 5).join(', ')}${foreign.length > 5 ? ', ...' : ''}); replacing it would delete them`, fix });
   }

@@ -116,6 +116,9 @@ describe('results folder', () => {
     // ours, but with a file we did not write: also refused (replacing would delete it)
     const ours = join(dir, 'ours');
     await writeResults(ours, sampleOutcome(), { outputs: ['speed'] });
+    writeFileSync(join(ours, '.report.html.tmp-123-abcd'), 'left by an interrupted report');
+    await writeResults(ours, sampleOutcome(), { outputs: ['speed'] });
+    expect(readdirSync(ours).sort()).toEqual(['estimates.yaml', 'fit.json', 'residuals.csv']);
     writeFileSync(join(ours, 'notes.txt'), 'precious');
     await expect(writeResults(ours, sampleOutcome(), { outputs: ['speed'] })).rejects.toThrow(/did not write/);
     const file = join(dir, 'plain-file');
