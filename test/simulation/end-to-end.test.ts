@@ -89,4 +89,44 @@ describe('model file to simulation', () => {
       expect(Math.abs(r.outputs[0][i] - T)).toBeLessThan(1e-7 * T);
     }
   });
+
+  it('a delayed linear ramp: the compiled sensitivity of the delay uses the input slope', () => {
+    // closed form: first-order lag driven by a ramp r(t) = a t delayed by d:
+    // with s = t - d > 0, x = K a (s - tau (1 - e^{-s/tau})) and dx/dd = -K a (1 - e^{-s/tau})
+    const dir = mkdtempSync(join(tmpdir(), 'rigcal-e2e-ramp-'));
+    writeFileSync(join(dir, 'lag.yaml'), `format: 1
+name: ramp-lag
+description: First-order lag driven by a delayed ramp (a scenario of our own, for tests).
+states:
+  x: { initial: 0 }
+inputs:
+  r: { interpolate: linear, delay: d }
+parameters:
+  K:   { fixed: 2 }
+  tau: { fixed: 0.5 }
+  d:   { free: [0, 1], start: 0.3 }
+equations:
+  x: (K*r - x) / tau
+outputs:
+  x: { expr: x, column: x }
+experiments:
+  - name: ramp
+    file: ramp.csv
+`);
+    const rows = ['t,r,x'];
+    for (let i = 0; i <= 40; i++) rows.push(`${i * 0.1},${(0.1 * i * 1.5).toFixed(12)},0`);
+    writeFileSync(join(dir, 'ramp.csv'), rows.join('\n') + '\n');
+    const model = loadModel(join(dir, 'lag.yaml'));
+    const compiled = compileModel(model);
+    const data = loadExperimentData(model, 0);
+    const slot = compiled.paramSlot.get('d')!;
+    const r = simulateExperiment(compiled, data, parameterVector(compiled, 0), { sensitivitySlots: [slot] });
+    for (let i = 0; i < data.time.length; i++) {
+      const s = data.time[i] - 0.3;
+      const x = s > 0 ? 2 * 1.5 * (s - 0.5 * (1 - Math.exp(-s / 0.5))) : 0;
+      const dxdd = s > 0 ? -2 * 1.5 * (1 - Math.exp(-s / 0.5)) : 0;
+      expect(Math.abs(r.outputs[0][i] - x)).toBeLessThan(1e-7 * Math.max(1, Math.abs(x)));
+      expect(Math.abs(r.sensitivities!.outputs[0][i] - dxdd)).toBeLessThan(1e-7 * Math.max(1, Math.abs(dxdd)));
+    }
+  });
 });
