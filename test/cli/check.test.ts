@@ -68,6 +68,8 @@ describe('rigcal check on the demo models', () => {
     ['heated-block.yaml', /block-prbs\.csv\s+2400\s.*temperature: 5/, /P\s+W\s+heater_W\s+hold\s+parameter lag/],
     ['shaker-suspension.yaml', /shaker-chirp\.csv\s+5000\s+0 to 9\.998 s\s+0\.002 s/, /offset\s+free.*one copy per fit experiment/],
     ['friction-curve.yaml', /friction-sweep\.csv\s+48\s/, /static model \(no states\)/],
+    // A log timed in minutes (0.05 min steps): span and interval shown in the model's time unit, s.
+    ['../test/fixtures/models/ref-thermal.yaml', /ref-thermal-minutes\.csv\s+600\s+0 to 1797 s\s+3 s\s/, /T0\s+fixed\s+295\.4\s/],
   ])('%s loads with its data and no problem', async (file, dataLine, modelLine) => {
     const run = await rigcal(['check', join(root, 'models', file)]);
     expect(run.stderr).toBe('');
