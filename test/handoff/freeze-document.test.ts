@@ -151,6 +151,31 @@ describe('freezeModelText', () => {
     for (const l of untouched) expect(body.split('\n')).toContain(l);
   });
 
+  it('splices a new `set` line at a file end without line break', () => {
+    const head = MODEL_TEXT.slice(0, MODEL_TEXT.indexOf('  - name: steps'));
+    const variant = `${head}  - name: coast-down\n    file: ../demo-data/coast.csv\n    set: { J: 3.4e-3 }\n  - name: steps\n    file: ../demo-data/steps.csv`;
+    const m3: Model = { ...model, experiments: [model.experiments[1], model.experiments[0]] };
+    const r = freezeModelText(variant, m3, estimates, options);
+    expect(r.edited).toBe('source');
+    expect(r.text.endsWith('  - name: steps\n    file: ../demo-data/steps.csv\n    set: { w0: -0.3141592653589793 }\n')).toBe(true);
+  });
+
+  it('splices into block-style `set`, after nested keys and before a closing comment', () => {
+    const variant = MODEL_TEXT.replace('    set: { J: 3.4e-3 }     # added disc', '    set:\n      J: 3.4e-3        # added disc\n    columns:\n      w0: speed_rpm')
+      .replace('  - name: steps\n    file: ../demo-data/steps.csv     # relative to this model file', '  - name: steps\n    file: "../demo-data/steps.csv"   # quoted\n    window: [0.5, 20]')
+      .trimEnd()
+      .concat('\n# the end');
+    const m2: Model = { ...model, experiments: [{ ...model.experiments[0], window: [0.5, 20] }, { ...model.experiments[1], columns: { w0: 'speed_rpm' } }, model.experiments[2]] };
+    const r = freezeModelText(variant, m2, estimates, { ...options, outputDir: '/rig/handoff/v2' });
+    expect(r.edited).toBe('source');
+    expect(r.text).toContain('    set:\n      J: 3.4e-3        # added disc\n      w0: 1.4142135623730951\n    columns:');
+    expect(r.text).toContain('    file: "../../demo-data/steps.csv"   # quoted\n    window: [0.5, 20]\n    set: { w0: -0.3141592653589793 }\n');
+    expect(r.text.endsWith('    role: validation\n# the end')).toBe(true);
+    const y = parse(r.text) as any;
+    expect(y.experiments[1].set).toEqual({ J: 3.4e-3, w0: W_COAST });
+    expect(y.experiments[1].columns).toEqual({ w0: 'speed_rpm' });
+  });
+
   it('keeps Windows line ends', () => {
     const r = freezeModelText(MODEL_TEXT.replace(/\n/g, '\r\n'), model, estimates, options);
     expect(r.edited).toBe('source');
