@@ -7,8 +7,12 @@
  * component of at least NULL_COMPONENT, and for two of them the combination that IS determined:
  * - moving the two by equal relative amounts (direction (+1,+1) in (ln a, ln b)) leaves only a/b;
  * - opposite relative amounts ((+1,-1) in logs) leave only the product a*b;
- * - in linear coordinates, equal absolute amounts leave only a - b, opposite ones only a + b;
- * - other proportions leave a power law, e.g. a/b^2.
+ * - in linear coordinates, equal absolute amounts leave only a - b, opposite ones only a + b, other
+ *   proportions a linear combination such as a + 2*b;
+ * - in log coordinates, other proportions leave a power law, e.g. a*b^2.
+ * A direction is local: where a ratio (or product) and a sum (or difference) both hold near the
+ * estimates (a/b and a - b when a = b), both are given; a general linear combination is offered
+ * only when no ratio or product fits, since those are what physical models usually hide.
  * Relative changes are d theta for log-scaled entries and d theta / value for linear ones.
  * Pairs of determined parameters with |correlation| > 0.95 are flagged with a sentence (common
  * practice, no source: a correlation that close to 1 means the data hardly separate the two).
@@ -77,6 +81,11 @@ function describePair(a: string, b: string, rel: [number, number] | null, abs: [
   if (ratioKind === 'product') combos.push(`the product ${a}*${b}`);
   if (sumKind === 'difference') combos.push(`the difference ${a} - ${b}`);
   if (sumKind === 'sum') combos.push(`the sum ${a} + ${b}`);
+  if (combos.length === 0 && abs && Number.isFinite(absRatio) && absRatio !== 0) {
+    // Linear coordinates, unequal amounts: invariant a - (da/db) b.
+    const c = Number((-absRatio).toPrecision(2));
+    combos.push(`${a} ${c < 0 ? '-' : '+'} ${Math.abs(c)}*${b}`);
+  }
   if (combos.length === 0 && rel && Number.isFinite(relRatio) && relRatio !== 0) {
     // Invariant along (ra, rb) in logs: ln a - (ra/rb) ln b, i.e. a * b^(-ra/rb).
     combos.push(powerLaw(a, b, -relRatio));

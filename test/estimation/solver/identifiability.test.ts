@@ -102,3 +102,11 @@ describe('analyseIdentifiability', () => {
     expect(ident.conditionNumber!).toBeLessThan(10);
   });
 });
+
+describe('analyseIdentifiability, linear combinations', () => {
+  it('y = (a + 2 b) x in linear coordinates: only a + 2*b', () => {
+    const { ident } = analyse((x, [a, b]) => (a! + 2 * b!) * x, (x) => [x, 2 * x], [0.3, 1.5], ['a', 'b']);
+    expect(ident.problems).toHaveLength(1);
+    expect(ident.problems[0]!.message).toContain('a + 2*b');
+  });
+});
