@@ -147,6 +147,20 @@ describe('solveLeastSquares', () => {
     expect(res.jacobian.rows).toBe(2); // still a usable Jacobian at the last point
   });
 
+  it('stops at once, and says why, when every entry sits on a bound the cost wants to cross', () => {
+    const p: LeastSquaresProblem = {
+      lower: [0],
+      upper: [2],
+      residuals: (t) => [t[0]! - 5],
+      residualsAndJacobian: (t) => ({ residuals: [t[0]! - 5], jacobian: [[1]] }),
+    };
+    const res = solveLeastSquares(p, [2]);
+    expect(res.status).toBe('converged');
+    expect(res.message).toBe('every entry is held at a bound and the cost would only fall outside the bounds');
+    expect(res.atBound).toEqual(['upper']);
+    expect(res.iterations).toBe(0);
+  });
+
   it('reports zero residuals as an exact fit', () => {
     const p: LeastSquaresProblem = {
       residuals: (t) => [t[0]! - 3],
