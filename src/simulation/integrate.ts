@@ -1,6 +1,9 @@
 /**
  * The integration core: odex (Gragg-Bulirsch-Stoer extrapolation) with dense output, values at the
  * sample times taken from the dense interpolant inside each accepted step (no restart per sample).
+ * Linearly interpolated inputs have a kink at each sample: steps end there (breakpoints of the
+ * vendored odex). When such kinks come at nearly every sample, every sample is a step end, and the
+ * values are the step ends themselves (no dense output needed: "aligned" mode).
  *
  * Segments: the integrator restarts at `start` and wherever a `hold` input changes value (sample
  * time + delay), so that no step straddles a jump. Within a segment a hold input is a constant.
@@ -186,9 +189,14 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
     }
   }
   const kinks = Float64Array.from(kinkSet).sort();
+  // When kinks come at (nearly) every sample, steps end on the samples anyway: then every sample
+  // is made a breakpoint, the samples are step ends, and no dense output is needed (which also lets
+  // the integrator use its cheaper step-number sequence: measured ~2x faster on a 1 kHz log).
+  const aligned = M > 2 && kinks.length >= 0.5 * M;
+  const breakpoints = aligned ? Float64Array.from(new Set([...kinks, ...drive.time])).sort() : kinks;
 
   const solver = new Solver(N);
-  solver.denseOutput = true;
+  solver.denseOutput = !aligned;
   solver.relativeTolerance = tol.rtol;
   solver.absoluteTolerance = tol.atol;
 
@@ -220,28 +228,34 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
       while (first + count < M && (drive.time[first + count] < b || (lastSegment && drive.time[first + count] <= b))) count++;
       solver.maxSteps = options.maxSteps ?? defaultMaxSteps(count);
       solver.maxStepSize = b - a;
-      solver.breakpoints = kinks.length ? kinks : null;
+      solver.breakpoints = breakpoints.length ? breakpoints : null;
       solver.initialStepSize = Math.min(1e-4, (b - a) / 2);
       const end = first + count; // exclusive
       lastX = a;
       lastZ.set(z);
       stepsInSegment = 0;
-      const observer = (nr: number, _xOld: number, x: number, y: number[], dense?: (c: number, x: number) => number): boolean | void => {
-        if (nr === 1 || !dense) {
+      const observer = (nr: number, xOld: number, x: number, y: number[], dense?: (c: number, x: number) => number): boolean | void => {
+        if (nr > 1) {
+          stepsInSegment++;
+          lastX = x;
+          for (let i = 0; i < N; i++) lastZ[i] = y[i];
+        }
+        if (dense && nr > 1) {
           while (m < end && drive.time[m] <= x) {
-            for (let i = 0; i < N; i++) zSample[i] = y[i];
+            const t = drive.time[m];
+            for (let i = 0; i < N; i++) zSample[i] = dense(i, t);
             recordSample(m++);
           }
           return;
         }
-        stepsInSegment++;
-        while (m < end && drive.time[m] <= x) {
-          const t = drive.time[m];
-          for (let i = 0; i < N; i++) zSample[i] = dense(i, t);
+        // The start point, or a step that ended on a sample (aligned mode): x may differ from the
+        // breakpoint by rounding, and the integrator treats breakpoints within 1e-8 of a step as
+        // reached, so the same reach applies here.
+        const reach = x + 1e-8 * (x - xOld) + 4 * Number.EPSILON * Math.abs(x);
+        while (m < end && drive.time[m] <= reach) {
+          for (let i = 0; i < N; i++) zSample[i] = y[i];
           recordSample(m++);
         }
-        lastX = x;
-        for (let i = 0; i < N; i++) lastZ[i] = y[i];
       };
       const res = solver.solve(rhs, a, Array.from(z), b, observer);
       stats.steps += res.nAccept;

@@ -649,15 +649,19 @@ export class Solver {
             // Is xEnd reached in the next step?
             if (0.1 * Math.abs(xEnd - x) <= Math.abs(x) * this.uRound) break loop
             h = posneg * Math.min(Math.abs(h), Math.abs(xEnd - x), hMax, Math.abs(hoptde))
-            if ((x + 1.01 * h - xEnd) * posneg > 0) {
+            // rigcal: end the step on the next breakpoint before xEnd (forward integration only).
+            // A breakpoint within 1e-8 of a step of x counts as reached.
+            let capped = false
+            if (bp && posneg > 0) {
+              while (bi < bp.length && bp[bi] - x <= 1e-8 * Math.abs(h)) ++bi
+              if (bi < bp.length && bp[bi] < xEnd && x + 1.01 * h > bp[bi]) {
+                h = bp[bi] - x
+                capped = true
+              }
+            }
+            if (!capped && (x + 1.01 * h - xEnd) * posneg > 0) {
               h = xEnd - x
               last = true
-            }
-            // rigcal: end the step on the next breakpoint (forward integration only). A breakpoint
-            // within 1e-8 of a step of x counts as reached.
-            if (bp && posneg > 0 && !last) {
-              while (bi < bp.length && bp[bi] - x <= 1e-8 * Math.abs(h)) ++bi
-              if (bi < bp.length && x + 1.01 * h > bp[bi]) h = bp[bi] - x
             }
             if (nStep === 0 || !this.denseOutput) {
               F(x, y, dz)
