@@ -44,6 +44,7 @@ describe('freeze on a fitted rig', () => {
   let modelFile: string;
   let estimatesFile: string;
   let frozenFile: string;
+  let fitted: ReturnType<typeof fitModel>;
 
   beforeAll(() => {
     dir = writeRigData();
@@ -52,6 +53,7 @@ describe('freeze on a fitted rig', () => {
     modelFile = path.join(dir, 'models', 'spring-mass.yaml');
     writeFileSync(modelFile, modelText({ dataPrefix: '../' }));
     const outcome = fitModel(loadModel(modelFile));
+    fitted = outcome;
     expect(outcome.result.status).toBe('converged');
     writeResults(path.join(dir, 'spring-mass-fit'), outcome, { outputs: ['x'] });
     estimatesFile = path.join(dir, 'spring-mass-fit', 'estimates.yaml');
@@ -82,6 +84,17 @@ describe('freeze on a fitted rig', () => {
     }
     // The bump experiment's own mass (set) survived next to its per-experiment value.
     expect(frozen.experiments[1].set).toEqual({ m: 1.25, x0: estimates.parameters['x0@bump'].value });
+  });
+
+  it('reproduces the fit\'s own simulated series to 1e-9 relative', () => {
+    const frozen = loadModel(frozenFile);
+    const compiled = compileModel(frozen);
+    expect(fitted.residuals.length).toBe(3);
+    for (const series of fitted.residuals) {
+      const i = frozen.experiments.findIndex((e) => e.name === series.experiment);
+      const sim = simulateExperiment(compiled, loadExperimentData(frozen, i), parameterVector(compiled, i, {}));
+      expect(maxRelativeDifference([series.simulated], [sim.outputs[0]]), series.experiment).toBeLessThanOrEqual(1e-9);
+    }
   });
 
   it('reproduces `rigcal simulate --params` through the command line', async () => {
