@@ -1,7 +1,11 @@
 /**
- * The YAML rewrite behind `freeze`: the user's model file, edited through the `yaml` Document API
- * (not re-serialised from our Model) so that their comments, key order and layout survive, with
+ * The YAML rewrite behind `freeze`: the user's model file (never re-serialised from our Model), with
  * every free parameter fixed at its estimate and a comment saying where each value came from.
+ *
+ * Two ways to apply the same plan: through the `yaml` Document API (comments and key order survive;
+ * spacing is the printer's), and by splicing the user's bytes at the node positions the parser
+ * reports (freeze-splice.ts: everything outside the changed spans survives byte for byte). The
+ * splice is used when it reads back exactly as the Document edit; the Document edit is the fallback.
  *
  * Per-experiment parameters: `set` takes fixed parameters only (model-format.md), so a free
  * per-experiment parameter becomes a fixed parameter whose own value is its start value (what
