@@ -71,15 +71,17 @@ export function applyOverrides(
       continue;
     }
     if (experiment !== undefined) {
-      if (p.kind !== 'free' || !p.perExperiment) {
-        problems.add(where, `${name}@${experiment}: only per_experiment parameters take a value per experiment, and ${name} is not one`, `write --set ${name}=${value}`);
+      // A fixed parameter may differ in one experiment (as that experiment's `set` would); a free
+      // parameter only when it has a copy per experiment.
+      if (p.kind === 'free' && !p.perExperiment) {
+        problems.add(where, `${name}@${experiment}: ${name} is estimated once for all experiments, so it takes no value per experiment`, `write --set ${name}=${value}, or make it per_experiment: true`);
         continue;
       }
       if (!experiments.some((x) => x.name === experiment)) {
         problems.add(where, `${name}@${experiment}: there is no experiment "${experiment}"`, suggestion(experiment, experiments.map((x) => x.name), 'experiments'));
         continue;
       }
-      if (value < p.min || value > p.max) {
+      if (p.kind === 'free' && (value < p.min || value > p.max)) {
         problems.add(where, `${key} = ${value} is outside the bounds of ${name} [${p.min}, ${p.max}]`, 'give a value within the bounds');
       }
       continue;

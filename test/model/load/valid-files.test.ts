@@ -343,10 +343,12 @@ describe('overrides (--set)', () => {
   });
 
   it('are checked against bounds, kinds and experiments', () => {
-    const { problems } = problemsOf(SPRING, { overrides: { k: 5000, 'm@steps': 1, x: 1 } });
-    expect(problems.map((p) => p.where.key)).toEqual(['--set k=5000', '--set m@steps=1', '--set x=1']);
+    // m@steps (a fixed value for one experiment, like its `set`) is allowed; c@steps is not, since
+    // c is estimated once for all experiments.
+    const { problems } = problemsOf(SPRING, { overrides: { k: 5000, 'm@steps': 1, 'c@steps': 1, x: 1 } });
+    expect(problems.map((p) => p.where.key)).toEqual(['--set k=5000', '--set c@steps=1', '--set x=1']);
     expect(problems[0].what).toContain('outside its bounds');
-    expect(problems[1].what).toContain('only per_experiment parameters');
+    expect(problems[1].what).toContain('takes no value per experiment');
     expect(problems[2].what).toContain('state');
   });
 });
