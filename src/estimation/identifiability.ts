@@ -97,6 +97,30 @@ function describePair(a: string, b: string, rel: [number, number] | null, abs: [
   return `${head}: only ${what} is determined by these data`;
 }
 
+/**
+ * Three or more parameters whose relative changes are equal or opposite (the usual case: a model
+ * that contains them only through ratios or products with one of them, e.g. k/m and c/m). Null
+ * when the proportions are anything else.
+ */
+function describeGroup(names: string[], relative: number[]): string | null {
+  const r0 = relative[0]!;
+  if (!Number.isFinite(r0) || r0 === 0) return null;
+  const combos: string[] = [];
+  const kinds = new Set<string>();
+  for (let m = 1; m < names.length; m++) {
+    const q = relative[m]! / r0;
+    if (near(q, 1)) {
+      combos.push(`${names[m]}/${names[0]}`);
+      kinds.add('ratios');
+    } else if (near(q, -1)) {
+      combos.push(`${names[m]}*${names[0]}`);
+      kinds.add('products');
+    } else return null;
+  }
+  const what = kinds.size === 1 ? `the ${[...kinds][0]} ${listNames(combos)} are` : `${listNames(combos)} are`;
+  return `${listNames(names)} move together: only ${what} determined by these data, not each parameter`;
+}
+
 export function analyseIdentifiability(input: IdentifiabilityInput): IdentifiabilityResult {
   const p = input.theta.length;
   const J = toJacobianMatrix(input.jacobian, input.observations, p);
@@ -127,6 +151,8 @@ export function analyseIdentifiability(input: IdentifiabilityInput): Identifiabi
       const rel = relative.every(Number.isFinite) ? ([relative[0]!, relative[1]!] as [number, number]) : null;
       const allLinear = idx.every((i) => scales[i] !== 'log');
       message = describePair(names[0]!, names[1]!, rel, allLinear ? [absolute[0]!, absolute[1]!] : null);
+    } else if (describeGroup(names, relative) !== null) {
+      message = describeGroup(names, relative)!;
     } else {
       const largest = Math.max(...relative.map((r) => (Number.isFinite(r) ? Math.abs(r) : 0)));
       const parts = idx.map((_, m) => {

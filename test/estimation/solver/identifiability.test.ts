@@ -85,6 +85,18 @@ describe('analyseIdentifiability', () => {
     for (const pr of ident.problems) expect(pr.message).toMatch(/not determined separately|move/);
   });
 
+  it('y = (k/m) x + (c/m) x^2: m, k and c move together, only the ratios k/m and c/m (a mass that was not weighed)', () => {
+    const { ident, unc } = analyse(
+      (x, [m, k, c]) => (k! / m!) * x + (c! / m!) * x * x,
+      (x, [m, k, c]) => [-(k! * x + c! * x * x) / m! ** 2, x / m!, (x * x) / m!],
+      [2, 3, 0.2],
+      ['m', 'k', 'c'],
+    );
+    expect(ident.problems).toHaveLength(1);
+    expect(ident.problems[0]!.message).toBe('m, k and c move together: only the ratios k/m and c/m are determined by these data, not each parameter');
+    expect(unc.parameters.map((p) => p.stdError)).toEqual([null, null, null]);
+  });
+
   it('flags a pair with |correlation| > 0.95 in a sentence, without calling it undetermined', () => {
     // Straight line far from x = 0: intercept and slope strongly (negatively) correlated.
     const x0 = 10;
