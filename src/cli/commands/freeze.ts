@@ -26,8 +26,8 @@ export function register(program: Command, ctx: CommandContext): void {
       'after',
       `
 Example:
-  rigcal freeze models/flywheel.yaml --params flywheel-rig-fit/estimates.yaml -o calibrated/flywheel.yaml
-  rigcal freeze models/flywheel.yaml --params flywheel-rig-fit/estimates.yaml -o parameters.csv --format csv
+  rigcal freeze models/flywheel.yaml --params flywheel-fit/estimates.yaml -o calibrated/flywheel.yaml
+  rigcal freeze models/flywheel.yaml --params flywheel-fit/estimates.yaml -o parameters.csv --format csv
 
 Per-experiment parameters become fixed parameters whose fitted values are written into each
 experiment's \`set\`; relative data paths are rewritten so that they stay valid from the output's folder.`,

@@ -15,7 +15,7 @@ export function register(program: Command, ctx: CommandContext): void {
       'and a rename). The page has no scripts and fetches nothing: open it in any browser or print it.',
       '',
       'Example:',
-      '  rigcal report flywheel-rig-fit',
+      '  rigcal report flywheel-fit',
     ].join('\n'))
     .action(ctx.action(async (dirArg: string) => {
       const dir = isAbsolute(dirArg) ? dirArg : resolve(ctx.io.cwd, dirArg);

@@ -37,8 +37,8 @@ export function register(program: Command, ctx: CommandContext): void {
       'after',
       `
 Example:
-  rigcal validate models/flywheel.yaml --params flywheel-rig-fit/estimates.yaml -e prbs-check
-  rigcal validate models/flywheel.yaml --params flywheel-rig-fit/estimates.yaml --data logs/friday.csv`,
+  rigcal validate models/flywheel.yaml --params flywheel-fit/estimates.yaml -e prbs-check
+  rigcal validate models/flywheel.yaml --params flywheel-fit/estimates.yaml --data logs/friday.csv`,
     )
     .action(
       ctx.action(async (modelFile: string, opts: ValidateCliOptions) => {
