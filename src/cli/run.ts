@@ -4,6 +4,7 @@
  */
 import { Command, CommanderError } from 'commander';
 import { RunFailure, UserError, formatProblem } from '../errors.js';
+import { escapeControls } from '../util/printable.js';
 import { VERSION } from '../version.js';
 import type { CliIO, CommandAction, CommandContext } from './io.js';
 import { registerCommands } from './commands/index.js';
@@ -49,11 +50,11 @@ function reportError(err: unknown, io: CliIO): number {
   }
   if (err instanceof UserError) {
     const n = err.problems.length;
-    io.stderr(`rigcal: ${n === 1 ? 'error' : `${n} errors`}:\n${err.problems.map((p) => formatProblem(p)).join('\n')}\n`);
+    io.stderr(`rigcal: ${n === 1 ? 'error' : `${n} errors`}:\n${escapeControls(err.problems.map((p) => formatProblem(p)).join('\n'))}\n`);
     return 2;
   }
   if (err instanceof RunFailure) {
-    io.stderr(`rigcal: failed: ${err.message}\n`);
+    io.stderr(`rigcal: failed: ${escapeControls(err.message)}\n`);
     return 1;
   }
   // A bug of ours, not the user's: show it in full so that it can be reported.

@@ -25,6 +25,14 @@ export interface CsvReadInfo {
   rows: number;
 }
 
+function isRegularFile(path: string): boolean {
+  try {
+    return statSync(path).isFile();
+  } catch {
+    return false;
+  }
+}
+
 function mib(bytes: number): string {
   return `${(bytes / (1024 * 1024)).toFixed(1)} MiB`;
 }
@@ -65,6 +73,14 @@ export function readCsv(
       where: { file: shown },
       what: `cannot read the data file: ${(err as NodeJS.ErrnoException).code ?? String(err)}`,
       fix: 'check the `file` path of the experiment; it is relative to the model file',
+    });
+  }
+  if (!isRegularFile(path)) {
+    // A folder, a device such as /dev/zero or a pipe: reading it would fail or never end.
+    throw new UserError({
+      where: { file: shown },
+      what: 'the data file is not a regular file (a folder, a device or a pipe)',
+      fix: 'point the experiment\'s `file` at a CSV log; it is relative to the model file',
     });
   }
   if (size > maxBytes) {

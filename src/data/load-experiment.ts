@@ -17,6 +17,7 @@ import { GrowableF64, GrowableI32 } from './growable.js';
 import { editDistance, nearestNames } from './nearest.js';
 import { badCellHint, readCell } from './numbers.js';
 import type { ExperimentData } from './types.js';
+import { shownText } from '../util/printable.js';
 
 /** The path as the user best recognises it: relative to the working directory when shorter. */
 function shownPath(file: string): string {
@@ -94,7 +95,7 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
   const badCell = (line: number, column: string, text: string, role: string): UserError =>
     new UserError({
       where: { file: shown, line },
-      what: `${role} column "${column}" has "${text}", which is not a number`,
+      what: `${role} column "${shownText(column)}" has "${shownText(text)}", which is not a number`,
       fix: badCellHint(text),
     });
 
@@ -104,14 +105,24 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
       headerLineNo = line;
       const where = new Map<string, number>();
       const headerProblems: Problem[] = [];
+      // One problem per repeated name (a hostile header may repeat one name 100 000 times).
+      const repeats = new Map<string, number[]>();
       names.forEach((n, i) => {
         if (n === '') return;
         if (where.has(n)) {
-          headerProblems.push({ where: { file: shown, line }, what: `column "${n}" appears twice in the header (fields ${where.get(n)! + 1} and ${i + 1})`, fix: 'give every column a distinct name' });
+          const fields = repeats.get(n) ?? [where.get(n)! + 1];
+          fields.push(i + 1);
+          repeats.set(n, fields);
         } else where.set(n, i);
       });
+      for (const [n, fields] of repeats) {
+        const what = fields.length === 2
+          ? `appears twice in the header (fields ${fields[0]} and ${fields[1]})`
+          : `appears ${fields.length.toLocaleString('en-US')} times in the header (fields ${fields.slice(0, 5).join(', ')}${fields.length > 5 ? ', ...' : ''})`;
+        headerProblems.push({ where: { file: shown, line }, what: `column "${shownText(n)}" ${what}`, fix: 'give every column a distinct name' });
+      }
       const available = names.filter((n) => n !== '');
-      const list = (n: string) => nearestNames(n, available).map((s) => `"${s}"`).join(', ');
+      const list = (n: string) => nearestNames(n, available).map((s) => `"${shownText(s)}"`).join(', ');
       // Time column.
       if (exp.time !== undefined) {
         timeColumn = exp.time;
@@ -126,7 +137,7 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
           }
         }
         if (timeIndex < 0 && !model.isStatic) {
-          headerProblems.push({ where: { file: shown, line, key: `${expKey}.time` }, what: `no time column: neither "t" nor "time" is in the file; columns: ${available.slice(0, 12).map((s) => `"${s}"`).join(', ')}`, fix: 'name the time column with `time:` in the experiment' });
+          headerProblems.push({ where: { file: shown, line, key: `${expKey}.time` }, what: `no time column: neither "t" nor "time" is in the file; columns: ${available.slice(0, 12).map((s) => `"${shownText(s)}"`).join(', ')}`, fix: 'name the time column with `time:` in the experiment' });
         }
       }
       if (timeIndex < 0 && model.isStatic && win) {
@@ -152,7 +163,7 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
         }
       }
       if (outputs.length > 0 && outputs.every((p) => p.index < 0) && !headerProblems.length) {
-        headerProblems.push({ where: { file: shown, line }, what: `none of the outputs (${outputs.map((p) => `"${p.column}"`).join(', ')}) is a column of this file; columns: ${available.slice(0, 12).map((s) => `"${s}"`).join(', ')}`, fix: 'check the outputs\' `column` names or rename them with `columns:` in the experiment' });
+        headerProblems.push({ where: { file: shown, line }, what: `none of the outputs (${outputs.map((p) => `"${p.column}"`).join(', ')}) is a column of this file; columns: ${available.slice(0, 12).map((s) => `"${shownText(s)}"`).join(', ')}`, fix: 'check the outputs\' `column` names or rename them with `columns:` in the experiment' });
       }
       if (headerProblems.length) throw new UserError(headerProblems);
     },
@@ -180,7 +191,7 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
         const plan = inputs[j];
         const text = cells[plan.index];
         const c = readCell(text);
-        if (c.kind === 'missing') throw new UserError({ where: { file: shown, line }, what: `input column "${plan.column}" (input ${plan.name}) has a missing value ("${text}")`, fix: 'inputs drive the simulation and cannot be missing: fill the gap in the log or window it out' });
+        if (c.kind === 'missing') throw new UserError({ where: { file: shown, line }, what: `input column "${plan.column}" (input ${plan.name}) has a missing value ("${shownText(text)}")`, fix: 'inputs drive the simulation and cannot be missing: fill the gap in the log or window it out' });
         if (c.kind === 'bad') throw badCell(line, plan.column, text, `input ${plan.name}:`);
         inputCols[j].push(plan.convert(c.value));
       }
