@@ -116,7 +116,7 @@ export interface FitJson {
   iterations: number;
   wallSeconds: number;
   starts?: { requested: number; seed: number; distinctOptima: number; bestCosts: number[] };
-  parameters: { name: string; parameter: string; status: string; experiment?: string; estimate: number; stdError?: number | null; ci95?: [number, number] | null; atBound?: false | string }[];
+  parameters: { name: string; parameter: string; status: string; experiment?: string; estimate: number; start?: number; stdError?: number | null; ci95?: [number, number] | null; atBound?: false | string }[];
   statistics: { observations: number; freeParameters: number; weightedSSE: number; reducedChiSquare?: number; logLikelihood: number };
   outputs: { experiment: string; output: string; role: string; samples: number; missing: number; sigma: number; sigmaEstimated: boolean; rmse: number; whiteness?: { white: boolean; pValue: number }; verdict?: string }[];
   identifiability: { conditionNumber: number | null; problems: { parameters: string[]; message: string }[] };
