@@ -61,11 +61,26 @@ export class InputTrack {
     return (this.values[k + 1] - this.values[k]) / (this.time[k + 1] - this.time[k]);
   }
 
-  /** Value into u[j] and slope into udot[j] at model time t, with one lookup. */
-  fill(t: number, u: Float64Array, udot: Float64Array, j: number): void {
+  /**
+   * Value into u[j] and slope into udot[j] at model time t, with one lookup. The slope jumps at
+   * each sample: `side` -1 takes the slope of the interval that ends at a sample when t is (within
+   * rounding of) that sample shifted by the delay, otherwise that of the interval that starts
+   * there. Within rounding matters because the integrator's step ends on sample + delay, computed
+   * in floating point, and t - delay need not give the sample time back exactly.
+   */
+  fill(t: number, u: Float64Array, udot: Float64Array, j: number, side = 0): void {
     const s = t - this.delay;
-    const k = this.locate(s);
+    let k = this.locate(s);
     const n = this.time.length;
+    const time = this.time;
+    const near = 16 * Number.EPSILON * (Math.abs(t) + Math.abs(this.delay));
+    if (this.hold) {
+      // Hold inputs keep their exact right-continuous lookup (segments end at their jumps).
+    } else if (side < 0) {
+      if (k >= 0 && s - time[k] <= near) k--;
+    } else if (k + 1 < n && time[k + 1] - s <= near) {
+      k++;
+    }
     if (k < 0) {
       u[j] = this.values[0];
       udot[j] = 0;

@@ -71,6 +71,32 @@ export function inputDelays(compiled: CompiledModel, p: Float64Array): number[] 
   });
 }
 
+/**
+ * Solvers reused across simulations, one per system size: a solver keeps its work arrays (about
+ * 2*km^2 rows of the system size), so reusing it spares their allocation and collection on every
+ * simulation of a fit. Simulations are synchronous and never nest, so one per size is enough.
+ */
+const solvers = new Map<number, Solver>();
+function solverOfSize(N: number): Solver {
+  let s = solvers.get(N);
+  if (!s) {
+    if (solvers.size > 16) solvers.clear();
+    s = new Solver(N);
+    solvers.set(N, s);
+  }
+  return s;
+}
+
+/**
+ * Whether the sensitivities take part in the step-size control. Off: partial error control (the
+ * steps follow the states; see tolerances.ts for the measurement behind that choice).
+ */
+export let sensitivityErrorControl = true;
+/** For tests and measurements only: switch the sensitivity error control on or off. */
+export function setSensitivityErrorControl(on: boolean): void {
+  sensitivityErrorControl = on;
+}
+
 export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationResult {
   const model = compiled.model;
   const n = compiled.nStates;
@@ -107,12 +133,9 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
   const udot = new Float64Array(nIn);
   const uS = new Float64Array(nIn);
   const udotS = new Float64Array(nIn);
-  const zBuf = new Float64Array(N);
-  const dzBuf = new Float64Array(N);
   const zSample = new Float64Array(N);
   const yBuf = new Float64Array(nOut);
   const dyBuf = new Float64Array(nOut * q);
-  const ret = new Array<number>(N).fill(0);
 
   // Initial state at the start.
   let z = new Float64Array(N);
@@ -147,21 +170,18 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
     }
   };
 
-  const rhs = (t: number, y: number[]): number[] => {
+  // The integrator hands 0-based views of its own work arrays: read z and write dz in place.
+  const nLinear = linearIdx.length;
+  const linearTracks = linearIdx.map((j) => tracks[j]);
+  const rhs = (t: number, zIn: Float64Array, dz: Float64Array, side: number): void => {
     stats.rhsEvaluations++;
-    for (let i = 0; i < N; i++) zBuf[i] = y[i];
-    for (let a = 0; a < linearIdx.length; a++) tracks[linearIdx[a]].fill(t, u, udot, linearIdx[a]);
-    if (sens) sens.rhs(t, zBuf, u, udot, p, dzBuf);
-    else compiled.rhs(t, zBuf, u, p, dzBuf);
+    for (let a = 0; a < nLinear; a++) linearTracks[a].fill(t, u, udot, linearIdx[a], side);
+    if (sens) sens.rhs(t, zIn, u, udot, p, dz);
+    else compiled.rhs(t, zIn, u, p, dz);
     let s = 0;
-    for (let i = 0; i < N; i++) {
-      const v = dzBuf[i];
-      ret[i] = v;
-      s += v;
-    }
+    for (let i = 0; i < N; i++) s += dz[i];
     // s - s is NaN exactly when some entry is NaN or infinite (or the sum overflows).
-    if (s - s !== 0) throw new NonFiniteState(t, Float64Array.from(zBuf), Float64Array.from(dzBuf));
-    return ret;
+    if (s - s !== 0) throw new NonFiniteState(t, Float64Array.from(zIn), Float64Array.from(dz));
   };
 
   // Segment boundaries: start, every jump of a hold input, the last sample.
@@ -195,15 +215,44 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
   const aligned = M > 2 && kinks.length >= 0.5 * M;
   const breakpoints = aligned ? Float64Array.from(new Set([...kinks, ...drive.time])).sort() : kinks;
 
-  const solver = new Solver(N);
+  const solver = solverOfSize(N);
   solver.denseOutput = !aligned;
   solver.relativeTolerance = tol.rtol;
   solver.absoluteTolerance = tol.atol;
+  // Partial error control (tolerances.ts): the step size follows the states; the sensitivities
+  // are integrated with the same steps.
+  solver.errorComponents = sensitivityErrorControl ? N : n;
 
   let m = 0; // next sample to record
   const lastZ = new Float64Array(N);
   let lastX = drive.start;
   let stepsInSegment = 0;
+  let end = 0; // the current segment's samples end here (exclusive)
+  const time = drive.time;
+  const dense = !aligned;
+  // One observer for all segments (no closure per segment or step).
+  const observer = (nr: number, xOld: number, x: number, y: Float64Array): boolean | void => {
+    if (nr > 1) {
+      stepsInSegment++;
+      lastX = x;
+      lastZ.set(y);
+    }
+    if (dense && nr > 1) {
+      while (m < end && time[m] <= x) {
+        solver.denseInto(time[m], zSample);
+        recordSample(m++);
+      }
+      return;
+    }
+    // The start point, or a step that ended on a sample (aligned mode): x may differ from the
+    // breakpoint by rounding, and the integrator treats breakpoints within 1e-8 of a step as
+    // reached, so the same reach applies here.
+    const reach = x + 1e-8 * (x - xOld) + 4 * Number.EPSILON * Math.abs(x);
+    while (m < end && time[m] <= reach) {
+      zSample.set(y);
+      recordSample(m++);
+    }
+  };
 
   const holdValueIn = (j: number, a: number, b: number): number => tracks[j].value(0.5 * (a + b));
 
@@ -230,34 +279,11 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
       solver.maxStepSize = b - a;
       solver.breakpoints = breakpoints.length ? breakpoints : null;
       solver.initialStepSize = Math.min(1e-4, (b - a) / 2);
-      const end = first + count; // exclusive
+      end = first + count; // exclusive
       lastX = a;
       lastZ.set(z);
       stepsInSegment = 0;
-      const observer = (nr: number, xOld: number, x: number, y: number[], dense?: (c: number, x: number) => number): boolean | void => {
-        if (nr > 1) {
-          stepsInSegment++;
-          lastX = x;
-          for (let i = 0; i < N; i++) lastZ[i] = y[i];
-        }
-        if (dense && nr > 1) {
-          while (m < end && drive.time[m] <= x) {
-            const t = drive.time[m];
-            for (let i = 0; i < N; i++) zSample[i] = dense(i, t);
-            recordSample(m++);
-          }
-          return;
-        }
-        // The start point, or a step that ended on a sample (aligned mode): x may differ from the
-        // breakpoint by rounding, and the integrator treats breakpoints within 1e-8 of a step as
-        // reached, so the same reach applies here.
-        const reach = x + 1e-8 * (x - xOld) + 4 * Number.EPSILON * Math.abs(x);
-        while (m < end && drive.time[m] <= reach) {
-          for (let i = 0; i < N; i++) zSample[i] = y[i];
-          recordSample(m++);
-        }
-      };
-      const res = solver.solve(rhs, a, Array.from(z), b, observer);
+      const res = solver.solve(rhs, a, z, b, observer);
       stats.steps += res.nAccept;
       stats.rejectedSteps += res.nReject;
       if (res.outcome === Outcome.MaxStepsExceeded) {

@@ -10,6 +10,15 @@
  *  2. no allocation per right-hand-side call (a reused 0-based copy instead of y.slice(1)).
  *  3. no allocation per extrapolation line (midex reuses one buffer); typed work arrays; the dense
  *     interpolant finds its component directly when all components are dense.
+ *  4. speed (profile of a fit: the integrator and garbage collection dominated): the right-hand
+ *     side reads and writes 0-based typed views of the work arrays (no copies per call); the
+ *     observer gets a view of y (no slice per step) and evaluates the dense interpolant of all
+ *     components at once through `denseInto` (no closure per step); work arrays live on the
+ *     Solver and are reused by every solve() of the same size; rows of the 2-D tables are read
+ *     once per inner loop.
+ *  5. errorComponents: only the first errorComponents entries of y enter the error norm (and the
+ *     stability check and the dense-output error estimate); the others are integrated with the
+ *     same steps ("partial error control"; used for forward sensitivities).
  * The algorithm is otherwise unchanged: ODEX by E. Hairer and G. Wanner, ported by Colin Smith.
  */
 /**
@@ -31,18 +40,20 @@
  * OUT OF THE USE OF THIS SOFTWARE, EVEN IF ADVISED OF THE POSSIBILITY OF SUCH DAMAGE.
  */
 
-export interface Derivative {  // function computing the value of Y' = F(x,Y)
-  (x: number,           // input x value
-   y: number[])         // input y value)
-    : number[]          // output y' values (Array of length n)
+export interface Derivative {  // rigcal: Y' = F(x,Y) written into dy; y and dy are 0-based views
+  // side -1: x is the end of a step that ends on a breakpoint; give the limit from the left there
+  // (the right-hand side may have a jump at a breakpoint: the time derivative of a linearly
+  // interpolated input, which drives the sensitivity of its delay). Otherwise the value at x, or
+  // the limit from the right.
+  (x: number, y: Float64Array, dy: Float64Array, side: number): void
 }
 
 export interface OutputFunction {                    // value callback
   (nr: number,                                // step number
    xold: number,                              // left edge of solution interval
    x: number,                                 // right edge of solution interval (y = F(x))
-   y: number[],                               // F(x)
-   dense?: (c: number, x: number) => number)  // dense interpolator. Valid in the range [x, xold).
+   y: Float64Array)                           // rigcal: 0-based view of y(x), valid during the call only;
+                                              // Solver.denseInto gives values in [xold, x]
     : boolean|void                            // return false to halt integration
 }
 
@@ -76,7 +87,16 @@ export class Solver {
   relativeTolerance: number|number[]  // RTOL. Can be a scalar or vector of length N.
   breakpoints: Float64Array | null    // rigcal: increasing times where steps must end (kinks of the rhs)
   absoluteTolerance: number|number[]  // ATOL. Can be a scalar or vector of length N.
+  errorComponents: number             // rigcal: the first errorComponents entries enter the error norm
   debug: boolean
+  // rigcal: state of the dense interpolant of the last accepted step (COMMON /CONODX/)
+  private dXOld = 0
+  private dH = 1
+  private dImit = 0
+  private dNrd = 0
+  private dDens: Float64Array = null
+  // rigcal: work arrays reused by every solve() of the same shape
+  private work: any = null
 
   constructor(n: number) {
     this.n = n
@@ -103,33 +123,34 @@ export class Solver {
     this.absoluteTolerance = 1e-5
     this.debug = false
     this.breakpoints = null
+    this.errorComponents = n
   }
 
-  grid(dt: number, out: (xOut: number, yOut: number[]) => any): OutputFunction {
-    if (!this.denseOutput) throw new Error('Must set .denseOutput to true when using grid')
-    let components: number[] = this.denseComponents
-    if (!components) {
-      components = []
-      for (let i = 0; i < this.n; ++i) components.push(i)
-    }
-    let t: number
-    return (n: number, xOld: number, x: number, y: number[], interpolate: (i: number, x: number) => number) => {
-      if (n === 1) {
-        let v = out(x, y)
-        t = x + dt
-        return v
+  // rigcal: the dense interpolant of the last accepted step at x, every component, into out (0-based).
+  // Valid inside the observer call for that step. Replaces the per-step closure of contex.
+  denseInto(x: number, out: Float64Array): void {
+    const nrd = this.dNrd
+    const y = this.dDens
+    const imit = this.dImit
+    const theta = (x - this.dXOld) / this.dH
+    const theta1 = 1 - theta
+    const thetah = theta - 0.5
+    const tt = (theta * theta1) ** 2
+    for (let i = 1; i <= nrd; ++i) {
+      const phthet = y[i] + theta * (y[nrd + i] + theta1 * (y[2 * nrd + i] * theta + y[3 * nrd + i] * theta1))
+      if (imit < 0) {
+        out[i - 1] = phthet
+        continue
       }
-      while (t <= x) {
-        let yf: number[] = []
-        for (let i of components) {
-          yf.push(interpolate(i, t))
-        }
-        let v = out(t, yf)
-        if (v === false) return false
-        t += dt
+      let ret = y[nrd * (imit + 4) + i]
+      for (let im = imit; im >= 1; --im) {
+        ret = y[nrd * (im + 3) + i] + ret * thetah / im
       }
+      out[i - 1] = phthet + tt * ret
     }
   }
+
+  // rigcal: grid() removed (it used the per-step dense closure; rigcal samples through denseInto).
 
   // return a 1-based array of length n. Initial values undefined.
   // rigcal: typed arrays (zero-filled) instead of holey plain arrays: the hot loops read and write
@@ -178,17 +199,38 @@ export class Solver {
   // solOut, if provided, is called at each integration step.
   solve(f: Derivative,
         x: number,
-        y0: number[],
+        y0: ArrayLike<number>,
         xEnd: number,
         solOut?: OutputFunction) {
 
-    // Make a copy of y0, 1-based. We leave the user's parameters alone so that they may be reused if desired.
-    let y = [0].concat(y0)
-    let dz = Solver.dim(this.n)
-    let yh1 = Solver.dim(this.n)
-    let yh2 = Solver.dim(this.n)
-    if (this.maxSteps <= 0) throw new Error('maxSteps must be positive')
     const km = this.maxExtrapolationColumns
+    const nrdAll = this.denseOutput ? (this.denseComponents ? this.denseComponents.length : this.n) : 0
+    const lfSafe0 = 2 * km * km + km
+    // rigcal: work arrays (and their 0-based views for f) reused across solve() calls of one shape.
+    let W = this.work
+    if (!W || W.n !== this.n || W.km !== km || W.nrd !== nrdAll) {
+      const nrd0 = Math.max(1, nrdAll)
+      W = this.work = {
+        n: this.n, km, nrd: nrdAll,
+        y: Solver.dim(this.n), dz: Solver.dim(this.n), yh1: Solver.dim(this.n), yh2: Solver.dim(this.n),
+        dy: Solver.dim(this.n),
+        dens: Solver.dim(Math.max(1, (2 * km + 5) * nrdAll)),
+        fSafe: Solver.dim2(lfSafe0, nrd0),
+        ySafe: Solver.dim2(km, nrd0),
+        t: Solver.dim2(km, this.n),
+        scal: Solver.dim(this.n),
+      }
+      for (const key of ['y', 'dz', 'yh1', 'yh2', 'dy']) W[key + 'V'] = W[key].subarray(1)
+    }
+    // Make a copy of y0, 1-based. We leave the user's parameters alone so that they may be reused if desired.
+    const y = W.y
+    for (let i = 0; i < this.n; ++i) y[i + 1] = y0[i]
+    const dz = W.dz
+    const yh1 = W.yh1
+    const yh2 = W.yh2
+    const yV = W.yV, dzV = W.dzV, yh1V = W.yh1V, yh2V = W.yh2V, dyV = W.dyV
+    const nErr = Math.max(1, Math.min(this.n, this.errorComponents | 0))
+    if (this.maxSteps <= 0) throw new Error('maxSteps must be positive')
     if (km <= 2) throw new Error('maxExtrapolationColumns must be > 2')
     const nSeq = this.stepSizeSequence || (this.denseOutput ? 4 : 1)
     if (nSeq <= 3 && this.denseOutput) throw new Error('stepSizeSequence incompatible with denseOutput')
@@ -236,22 +278,18 @@ export class Solver {
     // call to core integrator
     const nrd = Math.max(1, nrdens)
     const ncom = Math.max(1, (2 * km + 5) * nrdens)
-    const dens = Solver.dim(ncom)
-    const fSafe = Solver.dim2(lfSafe, nrd)
-
-    // Wrap f in a function F which hides the one-based indexing from the customers.
-    // rigcal: a reused 0-based copy of y instead of y.slice(1) on every call.
-    const yZero = new Array(this.n).fill(0)
-    const F = (x: number, y: number[], yp: number[]) => {
-      for (let i = 0; i < this.n; ++i) yZero[i] = y[i + 1]
-      let ret = f(x, yZero)
-      for (let i = 0; i < ret.length; ++i) yp[i + 1] = ret[i]
-    }
+    const dens = W.dens
+    const fSafe = W.fSafe
+    if (ncom > dens.length - 1 || lfSafe !== lfSafe0) throw new Error('odex work arrays of the wrong shape')
+    this.dDens = dens
+    this.dNrd = nrdens
+    // rigcal: f is called directly on 0-based views of the work arrays (F(x, y, yp) became
+    // f(x, yV, ypV) at each call site).
     // rigcal: breakpoints strictly after the start.
     const bp = this.breakpoints
     let bi = 0
     if (bp) while (bi < bp.length && bp[bi] <= x) ++bi
-    const dyMidex = Solver.dim(this.n)
+    const dyMidex = W.dy
 
     let odxcor = (): Outcome => {
       // The following three variables are COMMON/CONTEX/
@@ -260,6 +298,8 @@ export class Solver {
       let kmit: number
 
       let acceptStep = (n: number): boolean => {   // label 60
+        // rigcal: locals instead of closure-context loads in the hot loops
+        const L_y = y, L_dz = dz, L_yh1 = yh1, L_yh2 = yh2, L_t = t, L_scal = scal, L_fSafe = fSafe, L_ySafe = ySafe, L_icom = icom, L_dens = dens, L_nrd = nrd, L_nj = nj, L_iPoint = iPoint, L_yV = yV, L_dzV = dzV, L_yh1V = yh1V, L_yh2V = yh2V, L_dyV = dyV, L_aTol = aTol, L_rTol = rTol, L_nErr = nErr
         // Returns true if we should continue the integration. The only time false
         // is returned is when the user's solution observation function has returned false,
         // indicating that she does not wish to continue the computation.
@@ -268,85 +308,102 @@ export class Solver {
         if (this.denseOutput) {
           // kmit = mu of the paper
           kmit = 2 * kc - this.interpolationFormulaDegree + 1
-          for (let i = 1; i <= nrd; ++i) dens[i] = y[icom[i]]
+          for (let i = 1; i <= L_nrd; ++i) L_dens[i] = L_y[L_icom[i]]
           xOldd = xOld
           hhh = h  // note: xOldd and hhh are part of /CONODX/
-          for (let i = 1; i <= nrd; ++i) dens[nrd + i] = h * dz[icom[i]]
-          let kln = 2 * nrd
-          for (let i = 1; i <= nrd; ++i) dens[kln + i] = t[1][icom[i]]
+          for (let i = 1; i <= L_nrd; ++i) L_dens[L_nrd + i] = h * L_dz[L_icom[i]]
+          let kln = 2 * L_nrd
+          for (let i = 1; i <= L_nrd; ++i) L_dens[kln + i] = L_t[1][L_icom[i]]
           // compute solution at mid-point
           for (let j = 2; j <= kc; ++j) {
-            let dblenj = nj[j]
+            let dblenj = L_nj[j]
             for (let l = j; l >= 2; --l) {
-              let factor = (dblenj / nj[l - 1]) ** 2 - 1
-              for (let i = 1; i <= nrd; ++i) {
-                ySafe[l - 1][i] = ySafe[l][i] + (ySafe[l][i] - ySafe[l - 1][i]) / factor
+              let factor = (dblenj / L_nj[l - 1]) ** 2 - 1
+              const rl = L_ySafe[l], rl1 = L_ySafe[l - 1]
+              for (let i = 1; i <= L_nrd; ++i) {
+                rl1[i] = rl[i] + (rl[i] - rl1[i]) / factor
               }
             }
           }
-          let krn = 4 * nrd
-          for (let i = 1; i <= nrd; ++i) dens[krn + i] = ySafe[1][i]
+          let krn = 4 * L_nrd
+          for (let i = 1; i <= L_nrd; ++i) L_dens[krn + i] = L_ySafe[1][i]
           // compute first derivative at right end
-          for (let i = 1; i <= n; ++i) yh1[i] = t[1][i]
-          F(x, yh1, yh2)
-          krn = 3 * nrd
-          for (let i = 1; i <= nrd; ++i) dens[krn + i] = yh2[icom[i]] * h
+          for (let i = 1; i <= n; ++i) L_yh1[i] = L_t[1][i]
+          // rigcal: the derivative at the right end, from the left when the step ends on a
+          // breakpoint (the interpolant belongs to this step); the next step then starts from a
+          // fresh evaluation from the right (see STATE.Start).
+          const onBp = capped && h === hCapped
+          f(x, L_yh1V, L_yh2V, onBp ? -1 : 0)
+          restartDerivative = onBp
+          krn = 3 * L_nrd
+          for (let i = 1; i <= L_nrd; ++i) L_dens[krn + i] = L_yh2[L_icom[i]] * h
           // THE LOOP
           for (let kmi = 1; kmi <= kmit; ++kmi) {
             // compute kmi-th derivative at mid-point
             let kbeg = (kmi + 1) / 2 | 0
             for (let kk = kbeg; kk <= kc; ++kk) {
-              let facnj = (nj[kk] / 2) ** (kmi - 1)
-              iPt = iPoint[kk + 1] - 2 * kk + kmi
-              for (let i = 1; i <= nrd; ++i) {
-                ySafe[kk][i] = fSafe[iPt][i] * facnj
+              let facnj = (L_nj[kk] / 2) ** (kmi - 1)
+              iPt = L_iPoint[kk + 1] - 2 * kk + kmi
+              const rs = L_ySafe[kk], rf = L_fSafe[iPt]
+              for (let i = 1; i <= L_nrd; ++i) {
+                rs[i] = rf[i] * facnj
               }
             }
             for (let j = kbeg + 1; j <= kc; ++j) {
-              let dblenj = nj[j]
+              let dblenj = L_nj[j]
               for (let l = j; l >= kbeg + 1; --l) {
-                let factor = (dblenj / nj[l - 1]) ** 2 - 1
-                for (let i = 1; i <= nrd; ++i) {
-                  ySafe[l - 1][i] = ySafe[l][i] + (ySafe[l][i] - ySafe[l - 1][i]) / factor
+                let factor = (dblenj / L_nj[l - 1]) ** 2 - 1
+                const rl = L_ySafe[l], rl1 = L_ySafe[l - 1]
+                for (let i = 1; i <= L_nrd; ++i) {
+                  rl1[i] = rl[i] + (rl[i] - rl1[i]) / factor
                 }
               }
             }
-            krn = (kmi + 4) * nrd
-            for (let i = 1; i <= nrd; ++i) dens[krn + i] = ySafe[kbeg][i] * h
+            krn = (kmi + 4) * L_nrd
+            const rb = L_ySafe[kbeg]
+            for (let i = 1; i <= L_nrd; ++i) L_dens[krn + i] = rb[i] * h
             if (kmi === kmit) continue
             // compute differences
             for (let kk = (kmi + 2) / 2 | 0; kk <= kc; ++kk) {
-              let lbeg = iPoint[kk + 1]
-              let lend = iPoint[kk] + kmi + 1
+              let lbeg = L_iPoint[kk + 1]
+              let lend = L_iPoint[kk] + kmi + 1
               if (kmi === 1 && nSeq === 4) lend += 2
               let l: number
               for (l = lbeg; l >= lend; l -= 2) {
-                for (let i = 1; i <= nrd; ++i) {
-                  fSafe[l][i] -= fSafe[l - 2][i]
+                const ra = L_fSafe[l], rb2 = L_fSafe[l - 2]
+                for (let i = 1; i <= L_nrd; ++i) {
+                  ra[i] -= rb2[i]
                 }
               }
               if (kmi === 1 && nSeq === 4) {
                 l = lend - 2
-                for (let i = 1; i <= nrd; ++i) fSafe[l][i] -= dz[icom[i]]
+                for (let i = 1; i <= L_nrd; ++i) L_fSafe[l][i] -= L_dz[L_icom[i]]
               }
             }
             // compute differences
             for (let kk = (kmi + 2) / 2 | 0; kk <= kc; ++kk) {
-              let lbeg = iPoint[kk + 1] - 1
-              let lend = iPoint[kk] + kmi + 2
+              let lbeg = L_iPoint[kk + 1] - 1
+              let lend = L_iPoint[kk] + kmi + 2
               for (let l = lbeg; l >= lend; l -= 2) {
-                for (let i = 1; i <= nrd; ++i) {
-                  fSafe[l][i] -= fSafe[l - 2][i]
+                const ra = L_fSafe[l], rb2 = L_fSafe[l - 2]
+                for (let i = 1; i <= L_nrd; ++i) {
+                  ra[i] -= rb2[i]
                 }
               }
             }
           }
-          interp(nrd, dens, kmit)
+          interp(L_nrd, L_dens, kmit)
           // estimation of interpolation error
           if (this.denseOutputErrorEstimator && kmit >= 1) {
             let errint = 0
-            for (let i = 1; i <= nrd; ++i) errint += (dens[(kmit + 4) * nrd + i] / scal[icom[i]]) ** 2
-            errint = Math.sqrt(errint / nrd) * errfac[kmit]
+            // rigcal: over the error-controlled components only
+            let nrdErr = 0
+            for (let i = 1; i <= L_nrd; ++i) {
+              if (L_icom[i] > L_nErr) continue
+              errint += (L_dens[(kmit + 4) * L_nrd + i] / L_scal[L_icom[i]]) ** 2
+              ++nrdErr
+            }
+            errint = Math.sqrt(errint / Math.max(1, nrdErr)) * errfac[kmit]
             hoptde = h / Math.max(errint ** (1 / (kmit + 4)), 0.01)
             if (errint > 10) {
               h = hoptde
@@ -356,14 +413,17 @@ export class Solver {
               return true
             }
           }
-          for (let i = 1; i <= n; ++i) dz[i] = yh2[i]
+          for (let i = 1; i <= n; ++i) L_dz[i] = L_yh2[i]
         }
-        for (let i = 1; i <= n; ++i) y[i] = t[1][i]
+        for (let i = 1; i <= n; ++i) L_y[i] = L_t[1][i]
         ++nAccept
         if (solOut) {
           // If denseOutput, we also want to supply the dense closure.
-          if (solOut(nAccept + 1, xOld, x, y.slice(1),
-              this.denseOutput && contex(xOldd, hhh, kmit, dens, icom)) === false) return false
+          // rigcal: the interpolant's state for denseInto, and a view of L_y (no copies per step)
+          this.dXOld = xOldd
+          this.dH = hhh
+          this.dImit = kmit
+          if (solOut(nAccept + 1, xOld, x, L_yV) === false) return false
         }
         // compute optimal order
         let kopt: number
@@ -406,45 +466,52 @@ export class Solver {
       }
 
       let midex = (j: number): void => {
+        // rigcal: locals instead of closure-context loads in the hot loops
+        const L_y = y, L_dz = dz, L_yh1 = yh1, L_yh2 = yh2, L_t = t, L_scal = scal, L_fSafe = fSafe, L_ySafe = ySafe, L_icom = icom, L_dens = dens, L_nrd = nrd, L_nj = nj, L_iPoint = iPoint, L_yV = yV, L_dzV = dzV, L_yh1V = yh1V, L_yh2V = yh2V, L_dyV = dyV, L_aTol = aTol, L_rTol = rTol, L_nErr = nErr
         const dy = dyMidex  // rigcal: reused buffer
         // Computes the jth line of the extrapolation table and
         // provides an estimation of the optional stepsize
-        const hj = h / nj[j]
+        const hj = h / L_nj[j]
+        const n = this.n
+        const denseOutput = this.denseOutput
         // Euler starting step
-        for (let i = 1; i <= this.n; ++i) {
-          yh1[i] = y[i]
-          yh2[i] = y[i] + hj * dz[i]
+        for (let i = 1; i <= n; ++i) {
+          L_yh1[i] = L_y[i]
+          L_yh2[i] = L_y[i] + hj * L_dz[i]
         }
         // Explicit midpoint rule
-        const m = nj[j] - 1
-        const njMid = (nj[j] / 2) | 0
+        const m = L_nj[j] - 1
+        const njMid = (L_nj[j] / 2) | 0
         for (let mm = 1; mm <= m; ++mm) {
-          if (this.denseOutput && mm === njMid) {
-            for (let i = 1; i <= nrd; ++i) {
-              ySafe[j][i] = yh2[icom[i]]
+          if (denseOutput && mm === njMid) {
+            const rs = L_ySafe[j]
+            for (let i = 1; i <= L_nrd; ++i) {
+              rs[i] = L_yh2[L_icom[i]]
             }
           }
-          F(x + hj * mm, yh2, dy)
-          if (this.denseOutput && Math.abs(mm - njMid) <= 2 * j - 1) {
+          f(x + hj * mm, L_yh2V, L_dyV, 0)
+          if (denseOutput && Math.abs(mm - njMid) <= 2 * j - 1) {
             ++iPt
-            for (let i = 1; i <= nrd; ++i) {
-              fSafe[iPt][i] = dy[icom[i]]
+            const rf = L_fSafe[iPt]
+            for (let i = 1; i <= L_nrd; ++i) {
+              rf[i] = dy[L_icom[i]]
             }
           }
-          for (let i = 1; i <= this.n; ++i) {
-            let ys = yh1[i]
-            yh1[i] = yh2[i]
-            yh2[i] = ys + 2 * hj * dy[i]
+          for (let i = 1; i <= n; ++i) {
+            let ys = L_yh1[i]
+            L_yh1[i] = L_yh2[i]
+            L_yh2[i] = ys + 2 * hj * dy[i]
           }
           if (mm <= this.stabilityCheckCount && j <= this.stabilityCheckTableLines) {
             // stability check
+            // rigcal: over the error-controlled components only
             let del1 = 0
-            for (let i = 1; i <= this.n; ++i) {
-              del1 += (dz[i] / scal[i]) ** 2
+            for (let i = 1; i <= L_nErr; ++i) {
+              del1 += (L_dz[i] / L_scal[i]) ** 2
             }
             let del2 = 0
-            for (let i = 1; i <= this.n; ++i) {
-              del2 += ((dy[i] - dz[i]) / scal[i]) ** 2
+            for (let i = 1; i <= L_nErr; ++i) {
+              del2 += ((dy[i] - L_dz[i]) / L_scal[i]) ** 2
             }
             const quot = del2 / Math.max(this.uRound, del1)
             if (quot > 4) {
@@ -457,35 +524,39 @@ export class Solver {
           }
         }
         // final smoothing step
-        F(x + h, yh2, dy)
-        if (this.denseOutput && njMid <= 2 * j - 1) {
+        f(x + h, L_yh2V, L_dyV, capped && h === hCapped ? -1 : 0)  // rigcal: left limit at a breakpoint
+        if (denseOutput && njMid <= 2 * j - 1) {
           ++iPt
-          for (let i = 1; i <= nrd; ++i) {
-            fSafe[iPt][i] = dy[icom[i]]
+          const rf = L_fSafe[iPt]
+          for (let i = 1; i <= L_nrd; ++i) {
+            rf[i] = dy[L_icom[i]]
           }
         }
-        for (let i = 1; i <= this.n; ++i) {
-          t[j][i] = (yh1[i] + yh2[i] + hj * dy[i]) / 2
+        const tj = L_t[j]
+        for (let i = 1; i <= n; ++i) {
+          tj[i] = (L_yh1[i] + L_yh2[i] + hj * dy[i]) / 2
         }
-        nEval += nj[j]
+        nEval += L_nj[j]
         // polynomial extrapolation
         if (j === 1) return  // was j.eq.1
-        const dblenj = nj[j]
+        const dblenj = L_nj[j]
         let fac: number
         for (let l = j; l > 1; --l) {
-          fac = (dblenj / nj[l - 1]) ** 2 - 1
-          for (let i = 1; i <= this.n; ++i) {
-            t[l - 1][i] = t[l][i] + (t[l][i] - t[l - 1][i]) / fac
+          fac = (dblenj / L_nj[l - 1]) ** 2 - 1
+          const tl = L_t[l], tl1 = L_t[l - 1]
+          for (let i = 1; i <= n; ++i) {
+            tl1[i] = tl[i] + (tl[i] - tl1[i]) / fac
           }
         }
         err = 0
-        // scaling
-        for (let i = 1; i <= this.n; ++i) {
-          let t1i = Math.max(Math.abs(y[i]), Math.abs(t[1][i]))
-          scal[i] = aTol[i] + rTol[i] * t1i
-          err += ((t[1][i] - t[2][i]) / scal[i]) ** 2
+        // scaling (rigcal: over the error-controlled components only)
+        const t1 = L_t[1], t2 = L_t[2]
+        for (let i = 1; i <= L_nErr; ++i) {
+          let t1i = Math.max(Math.abs(L_y[i]), Math.abs(t1[i]))
+          L_scal[i] = L_aTol[i] + L_rTol[i] * t1i
+          err += ((t1[i] - t2[i]) / L_scal[i]) ** 2
         }
-        err = Math.sqrt(err / this.n)
+        err = Math.sqrt(err / L_nErr)
         if (err * this.uRound >= 1 || (j > 2 && err >= errOld)) {
           atov = true
           h *= this.stepSizeReductionFactor
@@ -503,9 +574,10 @@ export class Solver {
         w[j] = a[j] / hh[j]
       }
 
+      const aInterp = new Float64Array(31)  // rigcal: allocated once per solve, not per step
       const interp = (n: number, y: number[], imit: number) => {
         // computes the coefficients of the interpolation formula
-        let a = new Array(31)  // zero-based: 0:30
+        let a = aInterp  // zero-based: 0:30
         // begin with Hermite interpolation
         for (let i = 1; i <= n; ++i) {
           let y0 = y[i]
@@ -553,36 +625,12 @@ export class Solver {
         }
       }
 
-      const contex = (xOld: number,
-                      h: number,
-                      imit: number,
-                      y: number[],
-                      icom: number[]) => {
-        return (c: number, x: number) => {
-          let i = 0
-          if (icom[c + 1] === c + 1) i = c + 1  // rigcal: direct hit when every component is dense
-          else for (let j = 1; j <= nrd; ++j) {
-            // careful: customers describe components 0-based. We record indices 1-based.
-            if (icom[j] === c + 1) i = j
-          }
-          if (i === 0) throw new Error('no dense output available for component ' + c)
-          const theta = (x - xOld) / h
-          const theta1 = 1 - theta
-          const phthet = y[i] + theta * (y[nrd + i] + theta1 * (y[2 * nrd + i] * theta + y[3 * nrd + i] * theta1))
-          if (imit < 0) return phthet
-          const thetah = theta - 0.5
-          let ret = y[nrd * (imit + 4) + i]
-          for (let im = imit; im >= 1; --im) {
-            ret = y[nrd * (im + 3) + i] + ret * thetah / im
-          }
-          return phthet + (theta * theta1) ** 2 * ret
-        }
-      }
+      // rigcal: contex (a closure per step) replaced by Solver.denseInto.
 
       // preparation
-      const ySafe = Solver.dim2(km, nrd)
+      const ySafe = W.ySafe
       const hh = Solver.dim(km)
-      const t = Solver.dim2(km, this.n)
+      const t = W.t
       // Define the step size sequence
       const nj = Solver.stepSizeSequence(nSeq, km)
       // Define the a[i] for order selection
@@ -592,7 +640,7 @@ export class Solver {
         a[i] = a[i - 1] + nj[i]
       }
       // Initial Scaling
-      const scal = Solver.dim(this.n)
+      const scal = W.scal
       for (let i = 1; i <= this.n; ++i) {
         scal[i] = aTol[i] + rTol[i] + Math.abs(y[i])
       }
@@ -622,7 +670,7 @@ export class Solver {
           iPt = 0
         }
         // check return value and abandon integration if called for
-        if (false === solOut(nAccept + 1, xOld, x, y.slice(1))) {
+        if (false === solOut(nAccept + 1, xOld, x, yV)) {
           return Outcome.EarlyReturn
         }
       }
@@ -635,6 +683,11 @@ export class Solver {
       let last = false
       let atov: boolean
       let kc = 0
+      // rigcal: does the current step end on a breakpoint (h === hCapped)? Must the next step
+      // evaluate its starting derivative afresh (the last one was a left limit)?
+      let capped = false
+      let hCapped = 0
+      let restartDerivative = false
 
       enum STATE {
         Start, BasicIntegrationStep, ConvergenceStep, HopeForConvergence, Accept, Reject
@@ -651,20 +704,22 @@ export class Solver {
             h = posneg * Math.min(Math.abs(h), Math.abs(xEnd - x), hMax, Math.abs(hoptde))
             // rigcal: end the step on the next breakpoint before xEnd (forward integration only).
             // A breakpoint within 1e-8 of a step of x counts as reached.
-            let capped = false
+            capped = false
             if (bp && posneg > 0) {
               while (bi < bp.length && bp[bi] - x <= 1e-8 * Math.abs(h)) ++bi
               if (bi < bp.length && bp[bi] < xEnd && x + 1.01 * h > bp[bi]) {
                 h = bp[bi] - x
                 capped = true
+                hCapped = h
               }
             }
             if (!capped && (x + 1.01 * h - xEnd) * posneg > 0) {
               h = xEnd - x
               last = true
             }
-            if (nStep === 0 || !this.denseOutput) {
-              F(x, y, dz)
+            if (nStep === 0 || !this.denseOutput || restartDerivative) {
+              restartDerivative = false
+              f(x, yV, dzV, 1)
               ++nEval
             }
             // The first and last step
@@ -759,7 +814,7 @@ export class Solver {
 
     const outcome = odxcor()
     return {
-      y: y.slice(1),
+      y: y.slice(1),  // rigcal: a copy (y is a reused work array)
       outcome: outcome,
       nStep: nStep,
       xEnd: xEnd,
