@@ -14,7 +14,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { estimationRigs, writeFreeDecay, type Rig } from './helpers/estimation-rigs.js';
+import { dcMotor, dcMotorSpeedOnly, estimationRigs, thermalBlock, twoMassDrive, twoTanks, withDefaultStarts, writeFreeDecay, type Rig } from './helpers/estimation-rigs.js';
 import { cli, hasNoNaN, readTable, sigmasOf, tempDir, weightedSse, type FitJson } from './helpers/rig-kit.js';
 
 const table: string[] = [];
@@ -64,6 +64,37 @@ describe('estimation acceptance rigs (fit from the model\'s start values)', () =
       });
     }, 60_000);
   }
+
+  // From the format's default starts (midpoints of two-decade bounds: about 5x the truth).
+  const fromDefaults = async (rig: Rig) => {
+    const { fit, atEstimate, atTruth, free, ratios } = await fitAndJudge(withDefaultStarts(rig));
+    expect(fit.status, fit.message).toBe('converged');
+    expect(atEstimate.sse, fit.message).toBeLessThanOrEqual(atTruth.sse * (1 + 1e-9));
+    free.forEach((p, i) => expect(ratios[i], p.name).toBeLessThan(4));
+  };
+  for (const rig of [dcMotor, thermalBlock, twoTanks]) {
+    it(`${rig.name} (default starts)`, () => fromDefaults(rig), 60_000);
+  }
+  // BUG (in the estimation engineers' uncommitted solver work, src/estimation/solver/levenberg-marquardt.ts,
+  // the new stop "relative cost change predicted by the trial step below the evaluation noise of the
+  // cost"): at iteration 1 the Gauss-Newton step leaves the bounds, its projection has a NEGATIVE
+  // predicted reduction (prered = -0.128, clipped), `prered <= noiseLevel()` holds, and the fit ends
+  // as "converged" at the start, objective 1.2e8 against 2853 at the truth. Committed HEAD passes this
+  // test (17 iterations, objective 2852.13). Fix: require !projected.clipped and prered > 0 there.
+  it.skip('dc-motor-rpm-only (default starts)', () => fromDefaults(dcMotorSpeedOnly), 60_000);
+
+  it('two-mass drive from the midpoint starts (ks 6x the truth): a local optimum on the bounds is not silent', async () => {
+    // A lightly damped resonance has local minima; from ks = 252.5 N*m/rad (truth 40) the fit ends on
+    // the rigid-shaft solution with ks and cs at their upper bounds. Not a wrong answer if it says so.
+    const rig = withDefaultStarts(twoMassDrive);
+    const { fit, atEstimate, atTruth } = await fitAndJudge(rig);
+    expect(fit.status).not.toBe('failed');
+    if (atEstimate.sse > atTruth.sse * (1 + 1e-9)) {
+      const atBound = fit.parameters.filter((p) => p.atBound);
+      expect(atBound.length).toBeGreaterThan(0);
+      for (const p of atBound) expect(fit.warnings.join('\n')).toMatch(new RegExp(`${p.name} is at its (upper|lower) bound`));
+    }
+  }, 60_000);
 
   it('rigs log what they claim: missing samples counted, units converted, sigmas given or estimated', async () => {
     // A cheap look at the two rigs whose logs have dropouts and given sigmas (fit repeated for clarity).
