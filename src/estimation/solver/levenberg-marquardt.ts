@@ -46,6 +46,14 @@ function reduce(j: Matrix, cols: readonly number[], r: Float64Array): { R: Matri
   return { R: qr.upperTriangularMatrix, qtr };
 }
 
+/** The caller's evaluation at the start, checked like one of ours; undefined when unusable. */
+function takeInitial(initial: NonNullable<SolverOptions['initial']>, p: number): Evaluation | undefined {
+  const residuals = Float64Array.from(initial.residuals);
+  if (!allFinite(residuals)) return undefined;
+  const jacobian = toJacobianMatrix(initial.jacobian, residuals.length, p);
+  return matrixAllFinite(jacobian) ? { ok: true, residuals, jacobian } : undefined;
+}
+
 function fmt(x: number): string {
   return x.toExponential(0).replace('e+', 'e');
 }
@@ -111,8 +119,11 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
     return out;
   };
 
-  let theta = project(start, lower, upper).theta;
-  const first = evaluate(theta, true);
+  const startProjection = project(start, lower, upper);
+  let theta = startProjection.theta;
+  // A warm start reuses the caller's evaluation at the start (only when the start needed no projection).
+  const warm = options.initial && !startProjection.clipped ? takeInitial(options.initial, p) : undefined;
+  const first = warm ?? evaluate(theta, true);
   if (!first.ok || !first.jacobian) {
     const why = first.ok ? 'no Jacobian' : first.why;
     return {
@@ -139,9 +150,18 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
   // ODE models the simulation with sensitivities takes other integration steps, and its cost can
   // differ by a relative 1e-6; comparing trials with it would reject every small step near the
   // optimum. One plain evaluation at the start buys that consistency.
-  const firstPlain = evaluate(theta, false);
+  const firstPlain = warm ?? evaluate(theta, false);
   let r = firstPlain.ok ? firstPlain.residuals : first.residuals;
   let fnorm = norm2(r);
+  // Evaluation noise of the cost: how far the two paths disagree at one point (see noisyCost).
+  let costNoise = options.costNoise ?? 0;
+  const noteNoise = (withJacobian: Float64Array, plain: Float64Array) => {
+    const a = norm2(withJacobian);
+    const b = norm2(plain);
+    if (b > 0 && Number.isFinite(a)) costNoise = Math.max(costNoise, Math.abs(a * a - b * b) / (b * b));
+  };
+  const noiseLevel = () => Math.min(costNoise, options.costNoiseLimit ?? Infinity);
+  if (!warm && firstPlain.ok) noteNoise(first.residuals, firstPlain.residuals);
 
   // Scaling: column norms, a zero column counting as 1 (MINPACK), then a running maximum.
   const D = columnNorms(J);
@@ -153,6 +173,7 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
 
   let iterations = 0;
   let acceptedSteps = 0;
+  let lastTrial: { theta: number[]; ev: Evaluation } | undefined;
   let scaledGradient = Number.NaN;
   let gradientNorm = Number.NaN;
   let status: SolverResult['status'] = 'converged';
@@ -175,6 +196,7 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
     jacobianEvaluations,
     failedEvaluations,
     atBound: boundStatus(theta, lower, upper),
+    costNoise,
   });
 
   for (;;) {
@@ -206,6 +228,20 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
     const { R, qtr } = reduce(J, free, r);
     const Df = Float64Array.from(free, (k) => D[k]!);
 
+    // On request, the Gauss-Newton certificate of the stopping tests before a trial is spent: no step
+    // of the free entries can reduce the linear model's cost by more than ||Q^T r||^2, so when that
+    // is below ftol of the cost nothing is left to gain. Near the optimum of an ODE fit this saves
+    // the trials that integration noise in the cost would reject one by one until the step test.
+    const bestPredicted = (norm2(qtr) / fnorm) ** 2;
+    if (options.noisyCost && bestPredicted <= Math.max(ftol, noiseLevel())) {
+      reason = 'cost';
+      message =
+        bestPredicted <= ftol
+          ? `relative cost change predicted by a full Gauss-Newton step below ${fmt(ftol)}`
+          : `relative cost change predicted by a full Gauss-Newton step below the evaluation noise of the cost (${fmt(noiseLevel())})`;
+      return finish();
+    }
+
     // Inner loop: trial steps until one is taken (or a stopping test passes).
     for (;;) {
       if (iterations >= maxIterations) {
@@ -225,7 +261,11 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
       const pnorm = scaledNorm(Df, actual);
       if (acceptedSteps === 0) delta = Math.min(delta, pnorm);
 
-      const ev = evaluate(trial, false);
+      // After a rejected trial the shrunk region may still hold the same Gauss-Newton step: the
+      // evaluation is deterministic, so the same point is not evaluated twice.
+      const repeated = lastTrial !== undefined && lastTrial.theta.length === trial.length && lastTrial.theta.every((v, k) => v === trial[k]);
+      const ev = repeated ? lastTrial!.ev : evaluate(trial, false);
+      lastTrial = { theta: trial, ev };
       let accepted = false;
       let trialCost = Infinity;
       let actred = -1;
@@ -273,6 +313,7 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
           // The step is taken: now (and only now) the costly Jacobian is needed.
           const withJ = evaluate(trial, true);
           if (withJ.ok && withJ.jacobian) {
+            noteNoise(withJ.residuals, ev.residuals);
             theta = trial;
             r = ev.residuals; // the plain evaluation's residuals: see the start
             J = withJ.jacobian;
@@ -331,6 +372,11 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
       } else if (delta <= xtol * xnorm || delta === 0) {
         reason = 'step';
         message = `relative step below ${fmt(xtol)} (trial points beyond could not be evaluated: ${ev.why})`;
+        return finish();
+      }
+      if (options.noisyCost && ev.ok && !accepted && prered <= noiseLevel()) {
+        reason = 'cost';
+        message = `relative cost change predicted by the trial step below the evaluation noise of the cost (${fmt(noiseLevel())})`;
         return finish();
       }
       if (accepted) break;

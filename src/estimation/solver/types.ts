@@ -66,6 +66,27 @@ export interface SolverOptions {
   gradientTolerance?: number;
   /** First trust radius = this times ||D theta_start|| (or this when that is zero). Default 100. */
   initialRadiusFactor?: number;
+  /**
+   * Residuals and Jacobian already known at `start` (e.g. the previous optimum of a refit whose
+   * weights changed): used instead of evaluating there, so a warm start costs no evaluation. The
+   * residuals must come from the same path as `residuals` (the solver compares trial costs with them).
+   */
+  initial?: ResidualsWithJacobian;
+  /**
+   * The cost has evaluation noise (ODE fits: integration error that moves with the parameters), so
+   * near the optimum trials only measure that noise. Then: (1) before a trial is spent, stop when
+   * the linear model predicts a relative reduction (||Q^T r||^2 / ||r||^2: no step of the free
+   * entries does better) below max(costTolerance, noise); (2) a rejected trial whose predicted
+   * reduction is below the noise also stops. The noise is measured where both evaluation paths
+   * meet (start and accepted points: relative difference of their costs), at least `costNoise`.
+   * Default false: MINPACK's tests only, which the NIST digits need (on large-residual problems
+   * such as ENSO Gauss-Newton's prediction understates what is left).
+   */
+  noisyCost?: boolean;
+  /** Relative noise of the cost already measured (e.g. by the run a refit starts from). */
+  costNoise?: number;
+  /** Upper limit on the noise the stops of `noisyCost` use (the caller's statistical bound). Default: none. */
+  costNoiseLimit?: number;
   onIteration?: (p: SolverProgress) => void;
 }
 
@@ -104,4 +125,6 @@ export interface SolverResult {
   failedEvaluations: number;
   /** Per theta entry: whether it ended on a bound. */
   atBound: (false | 'lower' | 'upper')[];
+  /** Largest relative difference seen between the costs of the two evaluation paths at one point (0 when they agree). */
+  costNoise?: number;
 }
