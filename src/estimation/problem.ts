@@ -13,6 +13,7 @@
  * in linear coordinates and `value` in log coordinates. A per-experiment copy only has a nonzero
  * column in the rows of its own experiment.
  */
+import type { Matrix } from 'ml-matrix';
 import { RunFailure } from '../errors.js';
 import type { CompiledModel } from '../model/compiled-types.js';
 import type { ExperimentData } from '../data/types.js';
@@ -78,11 +79,27 @@ export interface EstimationProblem {
   /** Weighted residuals, or null when a simulation failed (the optimiser rejects the step). */
   residuals(theta: readonly number[]): Float64Array | null;
   residualsAndJacobian(theta: readonly number[]): ResidualsAndJacobian | null;
-  /** Simulated outputs per fit experiment at theta (throws RunFailure when it cannot simulate). */
+  /**
+   * Simulated outputs per fit experiment at theta (throws RunFailure when it cannot simulate).
+   * The plain simulations of the point the solver last moved to (the one where it asked for a
+   * Jacobian) are kept, so the optimum's final residuals and scores cost no simulation.
+   */
   simulateAll(theta: readonly number[]): SimulationResult[];
+  /**
+   * Residuals and Jacobian computed with the weighting `from`, rescaled row by row to the current
+   * weighting (sigma_from / sigma_now per output): a refit after the noise levels changed starts
+   * from them without simulating again.
+   */
+  reweighted(residuals: Float64Array, jacobian: Matrix, from: readonly number[]): { residuals: Float64Array; jacobian: Matrix };
   counters: { simulations: number; sensitivitySimulations: number };
   /** The last simulation failure seen (for messages when every trial fails). */
   lastFailure?: RunFailure;
+}
+
+function sameTheta(a: readonly number[], b: readonly number[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let k = 0; k < a.length; k++) if (!Object.is(a[k], b[k])) return false;
+  return true;
 }
 
 function toTheta(e: { scale: 'log' | 'linear' }, v: number): number {
@@ -141,6 +158,12 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
   let weights = sigmas.slice();
 
   const counters = { simulations: 0, sensitivitySimulations: 0 };
+  // The plain simulations of the last residual evaluation, and of the point where the solver last
+  // asked for a Jacobian (its current point: the solver evaluates a point plainly, then with
+  // sensitivities once it takes it, or the other way round at its start).
+  let lastPlain: { theta: number[]; results: SimulationResult[] } | undefined;
+  let lastJacobianTheta: number[] | undefined;
+  let kept: { theta: number[]; results: SimulationResult[] } | undefined;
 
   const problem: EstimationProblem = {
     compiled,
@@ -166,6 +189,7 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
       return p;
     },
     simulateAll(theta) {
+      if (kept && sameTheta(kept.theta, theta)) return kept.results.slice();
       return fitData.map((d, fitIndex) => {
         counters.simulations++;
         return sim.simulateExperiment(compiled, d, problem.paramsFor(theta, fitIndex));
@@ -173,6 +197,7 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
     },
     residuals(theta) {
       const r = new Float64Array(nResiduals);
+      const results: SimulationResult[] = [];
       for (let fitIndex = 0; fitIndex < fitData.length; fitIndex++) {
         let res: SimulationResult;
         try {
@@ -186,10 +211,29 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
           throw err;
         }
         if (!fillResiduals(fitIndex, res, r)) return null;
+        results.push(res);
       }
+      lastPlain = { theta: theta.slice(), results };
+      if (lastJacobianTheta && sameTheta(lastJacobianTheta, theta)) kept = lastPlain;
       return r;
     },
+    reweighted(residuals, jacobian, from) {
+      const r = Float64Array.from(residuals);
+      const J = jacobian.clone();
+      for (const b of blocks) {
+        const f = from[b.output] / weights[b.output];
+        if (f === 1) continue;
+        for (let s = 0; s < b.samples.length; s++) {
+          const i = b.offset + s;
+          r[i] *= f;
+          for (let k = 0; k < J.columns; k++) J.set(i, k, J.get(i, k) * f);
+        }
+      }
+      return { residuals: r, jacobian: J };
+    },
     residualsAndJacobian(theta) {
+      lastJacobianTheta = theta.slice();
+      if (lastPlain && sameTheta(lastPlain.theta, theta)) kept = lastPlain;
       const r = new Float64Array(nResiduals);
       const J = new Float64Array(nResiduals * nTheta);
       for (let fitIndex = 0; fitIndex < fitData.length; fitIndex++) {
