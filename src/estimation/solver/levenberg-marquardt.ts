@@ -374,7 +374,9 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
         message = `relative step below ${fmt(xtol)} (trial points beyond could not be evaluated: ${ev.why})`;
         return finish();
       }
-      if (options.noisyCost && ev.ok && !accepted && prered <= noiseLevel()) {
+      // Only a positive gain predicted for the unprojected step counts: a projected step's linear
+      // model can predict a loss (prered < 0), which says nothing about noise.
+      if (options.noisyCost && ev.ok && !accepted && !projected.clipped && prered > 0 && prered <= noiseLevel()) {
         reason = 'cost';
         message = `relative cost change predicted by the trial step below the evaluation noise of the cost (${fmt(noiseLevel())})`;
         return finish();
