@@ -181,6 +181,23 @@ describe('output paths: nothing written outside the results folder, no input ove
     expect(readFileSync(join(root, 'thesis.txt'), 'utf8')).toBe('precious');
   }, 60_000);
 
+  it('markup in the model\'s description stays text in report.html (the page runs no script)', async () => {
+    const root = tempDir('markup');
+    writeFileSync(join(root, 'model.yaml'), edit('name: hostile-case', 'name: hostile-case\ndescription: "<script>alert(1)</script><img src=x onerror=alert(2)>"'));
+    writeFileSync(join(root, 'data.csv'), goodCsv());
+    const run = await cli(['fit', 'model.yaml', '-o', 'results', '--quiet'], root);
+    expect(run.code, run.err).toBe(0);
+    const html = readFileSync(join(root, 'results', 'report.html'), 'utf8');
+    expect(html).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+    expect(html).not.toMatch(/<script|<img/i);
+    // `report` on a folder that is not a results folder is refused and writes nothing.
+    mkdirSync(join(root, 'other'));
+    const rep = await cli(['report', 'other'], root);
+    expect(rep.code).toBe(2);
+    expect(rep.err).toMatch(/fit\.json/);
+    expect(readdirSync(join(root, 'other'))).toEqual([]);
+  }, 60_000);
+
   it('validate -o at the model\'s own folder is refused, nothing changed', async () => {
     const root = tempDir('validate-clobber');
     const work = join(root, 'work');
