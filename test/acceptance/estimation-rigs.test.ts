@@ -75,13 +75,9 @@ describe('estimation acceptance rigs (fit from the model\'s start values)', () =
   for (const rig of [dcMotor, thermalBlock, twoTanks]) {
     it(`${rig.name} (default starts)`, () => fromDefaults(rig), 60_000);
   }
-  // BUG (in the estimation engineers' uncommitted solver work, src/estimation/solver/levenberg-marquardt.ts,
-  // the new stop "relative cost change predicted by the trial step below the evaluation noise of the
-  // cost"): at iteration 1 the Gauss-Newton step leaves the bounds, its projection has a NEGATIVE
-  // predicted reduction (prered = -0.128, clipped), `prered <= noiseLevel()` holds, and the fit ends
-  // as "converged" at the start, objective 1.2e8 against 2853 at the truth. Committed HEAD passes this
-  // test (17 iterations, objective 2852.13). Fix: require !projected.clipped and prered > 0 there.
-  it.skip('dc-motor-rpm-only (default starts)', () => fromDefaults(dcMotorSpeedOnly), 60_000);
+  // Guards the solver's noise stop: a projected first step with a predicted LOSS once ended this fit
+  // at its start as "converged" (objective 1.2e8 against 2853 at the truth).
+  it('dc-motor-rpm-only (default starts)', () => fromDefaults(dcMotorSpeedOnly), 60_000);
 
   it('two-mass drive from the midpoint starts (ks 6x the truth): a local optimum on the bounds is not silent', async () => {
     // A lightly damped resonance has local minima; from ks = 252.5 N*m/rad (truth 40) the fit ends on
