@@ -11,15 +11,21 @@ import { writeFolderAtomic, type FolderEntry } from '../util/atomic-write.js';
 import { renderEstimatesYaml } from './estimates-yaml.js';
 import { renderFitJson } from './fit-json.js';
 import { renderResidualsCsv } from './residuals-csv.js';
-import { renderFitReport } from './html/render-fit-report.js';
 
 /** Files a results folder of ours may hold; anything else means the folder is someone else's. */
 export const RESULT_FILES = ['estimates.yaml', 'fit.json', 'residuals.csv', 'report.html'] as const;
 
 export type HtmlRenderer = (outcome: FitOutcome) => string | Promise<string>;
 
-/** report.html from the in-memory results, by the report renderer. */
-export const reportRenderer: HtmlRenderer = (outcome) => renderFitReport(outcome.result, outcome.residuals);
+/**
+ * report.html from the in-memory results, by the report renderer. Loaded on first use: the renderer
+ * brings vega and vega-lite (about 0.6 s of module loading), which a program that only writes the
+ * other files, or fails before writing, should not pay for.
+ */
+export const reportRenderer: HtmlRenderer = async (outcome) => {
+  const { renderFitReport } = await import('./html/render-fit-report.js');
+  return renderFitReport(outcome.result, outcome.residuals);
+};
 
 export interface WriteResultsOptions {
   /** Every output of the model in model order (residuals.csv columns). */

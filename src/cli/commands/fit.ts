@@ -7,12 +7,7 @@
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { UserError } from '../../errors.js';
-import { fitModel } from '../../estimation/fit.js';
 import type { FitProgress } from '../../estimation/fit-api.js';
-import { loadModel, parseOverrides } from '../../model/load/index.js';
-import { renderFitJson } from '../../reports/fit-json.js';
-import { renderFitSummary } from '../../reports/summary-table.js';
-import { defaultResultsFolder, assertReplaceable, reportRenderer, writeResults } from '../../reports/write-results.js';
 import type { CommandContext } from '../io.js';
 
 interface FitCliOptions {
@@ -58,6 +53,15 @@ export function register(program: Command, ctx: CommandContext): void {
     .addHelpText('after', '\nExample:\n  rigcal fit models/flywheel.yaml --starts 8 --seed 1 -o flywheel-fit\n')
     .action(
       ctx.action(async (modelFile: string, opts: FitCliOptions) => {
+        // The pipeline and its writers load when the command runs, not when the CLI starts (every
+        // command registers at start-up; `rigcal --help` or another command need none of this).
+        const [{ fitModel }, { loadModel, parseOverrides }, { renderFitJson }, { renderFitSummary }, { defaultResultsFolder, assertReplaceable, reportRenderer, writeResults }] = await Promise.all([
+          import('../../estimation/fit.js'),
+          import('../../model/load/index.js'),
+          import('../../reports/fit-json.js'),
+          import('../../reports/summary-table.js'),
+          import('../../reports/write-results.js'),
+        ]);
         const io = ctx.io;
         const starts = positiveInteger(opts.starts, '--starts', 1);
         const seed = positiveInteger(opts.seed, '--seed', 0);
