@@ -15,7 +15,9 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { dcMotor, dcMotorSpeedOnly, estimationRigs, thermalBlock, twoMassDrive, twoTanks, withDefaultStarts, writeFreeDecay, type Rig } from './helpers/estimation-rigs.js';
-import { cli, hasNoNaN, readTable, sigmasOf, tempDir, weightedSse, type FitJson } from './helpers/rig-kit.js';
+import { cli, hasNoNaN, readTable, sigmasOf, tempDir, weightedSse, type FitJson, removeTempDirs } from './helpers/rig-kit.js';
+
+afterAll(removeTempDirs);
 
 const table: string[] = [];
 afterAll(() => {

@@ -9,9 +9,11 @@
 import { existsSync, mkdirSync, readFileSync, readdirSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import { join, relative } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { integrateRk4 } from './helpers/reference-rk4.js';
-import { cli, grid, normal, tempDir, writeLog } from './helpers/rig-kit.js';
+import { cli, grid, normal, tempDir, writeLog, removeTempDirs } from './helpers/rig-kit.js';
+
+afterAll(removeTempDirs);
 
 const BASE = `# Acceptance case of our own: a mass on a spring and a damper, force logged.
 format: 1

@@ -12,7 +12,9 @@ import { readFileSync, readdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
-import { cli, hasNoNaN, tempDir, type FitJson } from './helpers/rig-kit.js';
+import { cli, hasNoNaN, tempDir, type FitJson, removeTempDirs } from './helpers/rig-kit.js';
+
+afterAll(removeTempDirs);
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', 'fixtures', 'nist');
 const sets = readdirSync(root).filter((f) => f.endsWith('.json')).map((f) => f.replace(/\.json$/, '')).sort();

@@ -9,9 +9,11 @@
  */
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { FRICTION_TRUTH, frictionModel, writeFrictionData } from './helpers/friction-rig.js';
-import { cli, hasNoNaN, readTable, tempDir, type FitJson } from './helpers/rig-kit.js';
+import { cli, hasNoNaN, readTable, tempDir, type FitJson, removeTempDirs } from './helpers/rig-kit.js';
+
+afterAll(removeTempDirs);
 
 interface RankJson {
   models: { name: string; file: string; freeParameters: number; objective: number; aicc: number; weight: number; validation: { experiment: string; output: string; nrmse: number }[]; whiteness: { experiment: string; white: boolean | null }[] }[];

@@ -5,7 +5,7 @@
  * objective at the truth and at the estimate are evaluated the same way, with the same sigmas).
  * Every rig's data are invented by the tests (seeded), never measured.
  */
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from '../../../src/cli/run.js';
@@ -44,8 +44,17 @@ export function grid(n: number, dt: number, t0 = 0): Float64Array {
   return Float64Array.from({ length: n }, (_, i) => t0 + i * dt);
 }
 
+const made: string[] = [];
+
 export function tempDir(tag: string): string {
-  return mkdtempSync(join(tmpdir(), `rigcal-acceptance-${tag}-`));
+  const dir = mkdtempSync(join(tmpdir(), `rigcal-acceptance-${tag}-`));
+  made.push(dir);
+  return dir;
+}
+
+/** Removes every folder tempDir made in this test file (the hostile cases leave 100 MB behind). */
+export function removeTempDirs(): void {
+  for (const d of made.splice(0)) rmSync(d, { recursive: true, force: true });
 }
 
 /** Writes a CSV log: one comment line, the header, then rows; null cells are written as `missing`. */
