@@ -16,6 +16,9 @@
  *     components at once through `denseInto` (no closure per step); work arrays live on the
  *     Solver and are reused by every solve() of the same size; rows of the 2-D tables are read
  *     once per inner loop.
+ *  6. denseNeeded: the dense interpolant (and its error estimate) is built only for steps that
+ *     contain an output time (profile: building it was half the integration time when steps are
+ *     shorter than the sample interval, e.g. a fast electrical mode).
  *  5. errorComponents: only the first errorComponents entries of y enter the error norm (and the
  *     stability check and the dense-output error estimate); the others are integrated with the
  *     same steps ("partial error control"; used for forward sensitivities).
@@ -88,6 +91,9 @@ export class Solver {
   breakpoints: Float64Array | null    // rigcal: increasing times where steps must end (kinks of the rhs)
   absoluteTolerance: number|number[]  // ATOL. Can be a scalar or vector of length N.
   errorComponents: number             // rigcal: the first errorComponents entries enter the error norm
+  // rigcal: with dense output, whether an output time lies in (xOld, x]; when it returns false the
+  // step's interpolant is not built (null: always built)
+  denseNeeded: ((xOld: number, x: number) => boolean) | null = null
   debug: boolean
   // rigcal: state of the dense interpolant of the last accepted step (COMMON /CONODX/)
   private dXOld = 0
@@ -305,7 +311,19 @@ export class Solver {
         // indicating that she does not wish to continue the computation.
         xOld = x
         x += h
-        if (this.denseOutput) {
+        if (this.denseOutput && this.denseNeeded && !this.denseNeeded(xOld, x)) {
+          // rigcal: no output time in this step: skip building the interpolant (and its error
+          // estimate, which only concerns interpolated values); only the derivative at the right
+          // end is needed, as the next step's starting derivative.
+          const onBp = capped && h === hCapped
+          for (let i = 1; i <= n; ++i) L_yh1[i] = L_t[1][i]
+          f(x, L_yh1V, L_yh2V, onBp ? -1 : 0)
+          restartDerivative = onBp
+          for (let i = 1; i <= n; ++i) L_dz[i] = L_yh2[i]
+          // hoptde (the step the interpolation error allows) keeps its last value: reset, it let
+          // steps grow into stability rejections on a stiff-ish model (measured: 7464 rejected of
+          // 21766 steps against 34 of 17345).
+        } else if (this.denseOutput) {
           // kmit = mu of the paper
           kmit = 2 * kc - this.interpolationFormulaDegree + 1
           for (let i = 1; i <= L_nrd; ++i) L_dens[i] = L_y[L_icom[i]]
