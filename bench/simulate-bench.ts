@@ -4,7 +4,9 @@
  * interpolation (a kink at every sample, so at least one step per sample), and a binary signal
  * read as a hold input (restarts at its switches only), each with and without sensitivities.
  * Goal: median < 20 ms for the plain simulation.
- * Run: npx tsx bench/simulate-bench.ts
+ * Then every experiment of each demo model (and the two-mass fixture) at its start values, plain and
+ * with sensitivities of every free parameter: CPU ms (median and min), rhs evaluations, steps.
+ * Run: npx tsx bench/simulate-bench.ts [demo]
  */
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -15,6 +17,8 @@ import { loadModel } from '../src/model/load/index.js';
 import type { CompiledModel } from '../src/model/compiled-types.js';
 import { handData, handModel } from '../test/simulation/hand-models.js';
 import { simulateExperiment } from '../src/simulation/simulate.js';
+import { parameterVector } from '../src/simulation/parameters.js';
+import { loadExperimentData } from '../src/data/load-experiment.js';
 import type { SimulationOptions } from '../src/simulation/types.js';
 
 export function twoMassModel(interpolate: 'linear' | 'hold' = 'linear') {
@@ -161,8 +165,43 @@ function bench(label: string, options: SimulationOptions, input: 'multisine' | '
   return median(ms);
 }
 
+/** Every experiment of a model file, plain and with sensitivities of every free parameter. */
+function benchModel(file: string, runs: number) {
+  const model = loadModel(join(import.meta.dirname, '..', file));
+  const compiled = compileModel(model);
+  const jobs = model.experiments.map((_, k) => ({ data: loadExperimentData(model, k), p: parameterVector(compiled, k) }));
+  const free = model.parameters.filter((q) => q.kind === 'free').map((q) => compiled.paramSlot.get(q.name)!);
+  for (const sens of [false, true]) {
+    const options: SimulationOptions | undefined = sens ? { sensitivitySlots: free } : undefined;
+    let totals = { rhs: 0, steps: 0, rejected: 0, segments: 0 };
+    const once = () => {
+      totals = { rhs: 0, steps: 0, rejected: 0, segments: 0 };
+      for (const { data, p } of jobs) {
+        const s = simulateExperiment(compiled, data, p, options).stats;
+        totals.rhs += s.rhsEvaluations;
+        totals.steps += s.steps;
+        totals.rejected += s.rejectedSteps;
+        totals.segments += s.segments;
+      }
+    };
+    once();
+    once(); // warm-up (JIT)
+    const cpu: number[] = [];
+    for (let i = 0; i < runs; i++) {
+      const c0 = process.cpuUsage();
+      once();
+      const c1 = process.cpuUsage(c0);
+      cpu.push((c1.user + c1.system) / 1000);
+    }
+    const label = `${file}${sens ? ` + sensitivities of ${free.length}` : ''}`;
+    console.log(`${label}: median ${median(cpu).toFixed(2)} ms CPU (min ${Math.min(...cpu).toFixed(2)}) for ${jobs.length} experiment(s); rhs ${totals.rhs}, steps ${totals.steps} (${totals.rejected} rejected), ${totals.segments} segments`);
+  }
+}
+
 const isMain = process.argv[1] && import.meta.url.endsWith(process.argv[1].replace(/.*\//, ''));
-if (isMain) {
+if (isMain && process.argv[2] === 'demo') {
+  for (const file of ['models/flywheel.yaml', 'models/heated-block.yaml', 'models/shaker-suspension.yaml', 'test/fixtures/models/two-mass.yaml']) benchModel(file, 11);
+} else if (isMain) {
   bench('4 states, 10,000 samples, multisine input (linear interpolation), hand-written model', {}, 'multisine', 20, 'hand');
   bench('4 states, 10,000 samples, multisine input (linear interpolation)', {});
   bench('  the same with sensitivities for 6 parameters', { sensitivitySlots: [0, 1, 2, 3, 4, 5] });
