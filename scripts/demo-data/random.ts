@@ -3,21 +3,16 @@
  * uniforms and the Box-Muller transform for Gaussian noise. Good enough for measurement noise in
  * demos; reproducible across platforms because it uses only 32-bit integer arithmetic.
  */
+import { mulberry32 } from '../../src/util/random.js';
+
 export interface Rng {
   uniform(): number;
   normal(): number;
 }
 
 export function seededRng(seed: number): Rng {
-  let a = seed >>> 0;
   let spare: number | undefined;
-  const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const uniform = mulberry32(seed);
   const normal = () => {
     if (spare !== undefined) {
       const s = spare;

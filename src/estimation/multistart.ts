@@ -14,7 +14,7 @@
  * optima: that is a ridge (see the identifiability report), which the user should know about.
  */
 import { latinHypercube } from './solver/latin-hypercube.js';
-import { mulberry32 } from './solver/random.js';
+import { mulberry32 } from '../util/random.js';
 
 export interface MultistartEntry {
   scale: 'log' | 'linear';

@@ -16,17 +16,9 @@ export const NOISE_MM = 0.5;
 const DT = 0.02;
 const SAMPLES = 301;
 
-/** mulberry32: a small, well-known 32-bit seeded generator (public domain). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 } from '../../src/util/random.js';
+
+export { mulberry32 };
 
 /** Standard normal deviates by the Box-Muller transform. */
 export function gaussian(rand: () => number): () => number {

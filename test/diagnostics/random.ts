@@ -1,13 +1,8 @@
+import { mulberry32 } from '../../src/util/random.js';
+
 /** Seeded normal noise for tests (mulberry32 + Box-Muller): reproducible, no dependency. */
 export function normalNoise(seed: number): () => number {
-  let a = seed >>> 0;
-  const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const uniform = mulberry32(seed);
   return () => {
     const u = Math.max(uniform(), 1e-300);
     return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * uniform());

@@ -9,18 +9,10 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from '../../../src/cli/run.js';
+import { mulberry32 } from '../../../src/util/random.js';
 
-/** mulberry32 (public domain, T. Ettinger): a small seeded 32-bit generator. */
-export function uniform(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** The project's seeded uniform generator (mulberry32). */
+export const uniform = mulberry32;
 
 /** Standard normal deviates by the Box-Muller transform. */
 export function normal(seed: number): () => number {

@@ -2,16 +2,10 @@
  * Seeded random numbers for synthetic test data: mulberry32 (a small public-domain 32-bit generator
  * by Tommy Ettinger) and Box-Muller normals. Reproducible across runs and machines.
  */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+
+import { mulberry32 } from '../../../src/util/random.js';
+
+export { mulberry32 };
 
 export function normalGenerator(seed: number): () => number {
   const u = mulberry32(seed);

@@ -5,7 +5,7 @@
  * deviations (a false alarm about once in 700 runs; the seed is fixed, so the test is repeatable).
  */
 import { describe, expect, it } from 'vitest';
-import { mulberry32 } from '../../../src/estimation/solver/random.js';
+import { mulberry32 } from '../../../src/util/random.js';
 import { solveLeastSquares } from '../../../src/estimation/solver/index.js';
 import { computeUncertainty } from '../../../src/estimation/uncertainty.js';
 

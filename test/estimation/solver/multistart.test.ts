@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { multistartPoints, runMultistart, samplingInterval, type MultistartEntry } from '../../../src/estimation/multistart.js';
 import { latinHypercube } from '../../../src/estimation/solver/latin-hypercube.js';
-import { mulberry32 } from '../../../src/estimation/solver/random.js';
+import { mulberry32 } from '../../../src/util/random.js';
 import { solveLeastSquares, type LeastSquaresProblem } from '../../../src/estimation/solver/index.js';
 
 describe('latinHypercube', () => {
