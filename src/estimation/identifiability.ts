@@ -19,7 +19,7 @@
  */
 import type { IdentifiabilityProblem } from './fit-result.js';
 import { toJacobianMatrix } from './solver/dense.js';
-import { NULL_COMPONENT, scaledSvd, SINGULAR_THRESHOLD } from './solver/scaled-svd.js';
+import { meaningfulChanges, NULL_COMPONENT, scaledSvd, SINGULAR_THRESHOLD } from './solver/scaled-svd.js';
 import type { JacobianInput } from './solver/types.js';
 
 /** |correlation| above this is flagged (common practice, no source). */
@@ -125,7 +125,7 @@ export function analyseIdentifiability(input: IdentifiabilityInput): Identifiabi
   const p = input.theta.length;
   const J = toJacobianMatrix(input.jacobian, input.observations, p);
   const scales = input.scales ?? new Array<'log' | 'linear'>(p).fill('linear');
-  const svd = scaledSvd(J, input.singularThreshold ?? SINGULAR_THRESHOLD);
+  const svd = scaledSvd(J, input.singularThreshold ?? SINGULAR_THRESHOLD, meaningfulChanges(input.theta, scales));
   const sv = svd.singularValues;
   const smax = sv[0] ?? 0;
   const smin = sv[sv.length - 1] ?? 0;
@@ -146,7 +146,7 @@ export function analyseIdentifiability(input: IdentifiabilityInput): Identifiabi
     const absolute = idx.map((i, m) => (scales[i] === 'log' ? dTheta[m]! * value[m]! : dTheta[m]!));
     let message: string;
     if (idx.length === 1) {
-      message = `${names[0]} has no influence on the fit: these data do not determine it`;
+      message = `${names[0]} has no influence on the fit at these values: these data do not determine it (where the model can depend on it, the fit may sit on a plateau: try several starts, --starts N)`;
     } else if (idx.length === 2) {
       const rel = relative.every(Number.isFinite) ? ([relative[0]!, relative[1]!] as [number, number]) : null;
       const allLinear = idx.every((i) => scales[i] !== 'log');

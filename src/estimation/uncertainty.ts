@@ -22,7 +22,7 @@
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import type { Matrix } from 'ml-matrix';
 import { toJacobianMatrix } from './solver/dense.js';
-import { scaledSvd, SINGULAR_THRESHOLD } from './solver/scaled-svd.js';
+import { meaningfulChanges, scaledSvd, SINGULAR_THRESHOLD } from './solver/scaled-svd.js';
 import type { JacobianInput } from './solver/types.js';
 
 export interface UncertaintyInput {
@@ -109,7 +109,7 @@ export function computeUncertainty(input: UncertaintyInput): UncertaintyResult {
   }
 
   // Covariance in theta coordinates on the determined directions.
-  const svd = scaledSvd(J, input.singularThreshold ?? SINGULAR_THRESHOLD);
+  const svd = scaledSvd(J, input.singularThreshold ?? SINGULAR_THRESHOLD, meaningfulChanges(input.theta, scales));
   const d = svd.columnScale;
   const covTheta: number[][] = Array.from({ length: p }, () => new Array<number>(p).fill(0));
   svd.singularValues.forEach((s, k) => {

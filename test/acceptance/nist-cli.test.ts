@@ -82,13 +82,11 @@ describe('NIST StRD through `rigcal fit --json` (static model files)', () => {
     }, 30_000);
   }
 
-  // BUG (left for the estimation engineers, src/estimation/solver/scaled-svd.ts + identifiability.ts):
-  // from NIST start 1 BoxBOD runs onto the plateau b2 -> large (1 - exp(-b2*x) = 1 at every x; b1 =
-  // mean of y, SSE = 6 in sigma units), reports status "converged" and b2's standard error as 4.8e47
-  // with identifiability.problems empty and condition number 1.5: the column scaling normalises b2's
-  // column (about 1e-46 long) to unit length, so a parameter with no influence looks well determined.
-  // Expected: b2 reported as not determined (stdError null, a problem naming b2), or a non-converged status.
-  it.skip('BoxBOD from start 1: a parameter left on a plateau is not reported as determined', async () => {
+  // From NIST start 1 BoxBOD runs onto the plateau b2 -> large (1 - exp(-b2*x) = 1 at every x; b1 =
+  // mean of y). There b2's column of the Jacobian is about 1e-46 long: column scaling alone would blow
+  // it up to unit length and call b2 well determined (standard error 4.8e47, no problem listed). A
+  // parameter without influence must be reported as not determined (scaled-svd.ts, NO_INFLUENCE).
+  it('BoxBOD from start 1: a parameter left on a plateau is not reported as determined', async () => {
     const { fit } = await fitFrom('BoxBOD', 1);
     const b2 = fit.parameters.find((p) => p.name === 'b2')!;
     const onPlateau = Math.abs(b2.estimate - 0.54723748542) > 1;

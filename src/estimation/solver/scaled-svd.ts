@@ -4,7 +4,7 @@
  *
  * Columns are scaled to unit length first, so that the singular values measure how well
  * combinations of parameters are determined regardless of their units: J_s = J diag(1/d),
- * d = column norms (a zero column is left as it is and shows up as a zero singular value).
+ * d = column norms (a zero column, or one without influence, shows up as a zero singular value).
  */
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
 
@@ -27,6 +27,22 @@ export const SINGULAR_THRESHOLD = 1e-6;
  */
 export const NULL_COMPONENT = 0.01;
 
+/**
+ * A parameter whose meaningful change (a factor e in log coordinates, 100 % of its value in linear
+ * ones) moves the weighted residuals by less than this norm has no influence on the fit here: its
+ * column is taken as zero. Column scaling would otherwise blow a column of 1e-46 up to unit length
+ * and hide it (a fit stranded on a plateau, e.g. NIST BoxBOD from its far start). 1e-6 means the
+ * weighted SSE changes by about 1e-12 of one unit of chi-square: nothing the data can tell.
+ * Common practice, no source.
+ */
+export const NO_INFLUENCE = 1e-6;
+
+/** The size of a meaningful change of each coordinate: 1 in log coordinates, |theta| in linear ones. */
+export function meaningfulChanges(theta: readonly number[], scales?: readonly ('log' | 'linear')[]): number[] {
+  // A linear parameter at exactly 0 has no scale of its own to judge by: never flagged this way.
+  return theta.map((t, i) => (scales?.[i] === 'log' ? 1 : t !== 0 ? Math.abs(t) : Number.POSITIVE_INFINITY));
+}
+
 export interface ScaledSvd {
   /** Column norms d of J (1 where a column is zero). */
   columnScale: Float64Array;
@@ -41,7 +57,7 @@ export interface ScaledSvd {
   undetermined: boolean[];
 }
 
-export function scaledSvd(j: Matrix, threshold = SINGULAR_THRESHOLD): ScaledSvd {
+export function scaledSvd(j: Matrix, threshold = SINGULAR_THRESHOLD, meaningfulChange?: readonly number[]): ScaledSvd {
   const p = j.columns;
   const rows = Math.max(j.rows, p); // zero rows keep the SVD square-or-tall, so V is a full basis
   const js = new Matrix(rows, p);
@@ -49,7 +65,9 @@ export function scaledSvd(j: Matrix, threshold = SINGULAR_THRESHOLD): ScaledSvd 
   for (let k = 0; k < p; k++) {
     let s = 0;
     for (let i = 0; i < j.rows; i++) s = Math.hypot(s, j.get(i, k));
-    d[k] = s > 0 ? s : 1;
+    const noInfluence = meaningfulChange !== undefined && s * meaningfulChange[k]! < NO_INFLUENCE;
+    d[k] = s > 0 && !noInfluence ? s : 1;
+    if (noInfluence) continue; // left zero: a zero singular value whose direction is this parameter
     for (let i = 0; i < j.rows; i++) js.set(i, k, j.get(i, k) / d[k]!);
   }
   const svd = new SingularValueDecomposition(js, { computeLeftSingularVectors: false, computeRightSingularVectors: true, autoTranspose: false });
