@@ -7,7 +7,8 @@
  * comes from `dampedStep` (QR, trust radius Delta); the trial point is projected onto the bounds;
  * the ratio of actual to predicted cost reduction decides whether the step is taken (only when the
  * cost falls) and how Delta and the damping change. A trial whose residuals cannot be computed (a
- * diverging simulation) is a rejected step that shrinks Delta.
+ * diverging simulation) is a rejected step that shrinks Delta. Optional per-entry step limits
+ * (`maxStep`) cut a trial step entry by entry, the same way as the bounds.
  *
  * cost = sum of squared residuals (SSE) throughout.
  */
@@ -118,6 +119,11 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
     if (!out.ok) failedEvaluations++;
     return out;
   };
+
+  const maxStep = problem.maxStep ? Float64Array.from({ length: p }, (_, i) => problem.maxStep![i] as number) : undefined;
+  if (maxStep?.some((m) => !(m > 0))) throw new Error('solver: every per-entry step limit must be positive (Infinity for none)');
+  const stepLower = (th: readonly number[]) => Float64Array.from(th, (v, i) => Math.max(lower[i]!, v - maxStep![i]!));
+  const stepUpper = (th: readonly number[]) => Float64Array.from(th, (v, i) => Math.min(upper[i]!, v + maxStep![i]!));
 
   const startProjection = project(start, lower, upper);
   let theta = startProjection.theta;
@@ -255,7 +261,8 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
       damping = ds.damping;
       const full = theta.slice();
       for (let k = 0; k < free.length; k++) full[free[k]!]! += ds.step[k]!;
-      const projected = project(full, lower, upper);
+      // Per-entry step limits act as a box around theta, intersected with the bounds.
+      const projected = maxStep ? project(full, stepLower(theta), stepUpper(theta)) : project(full, lower, upper);
       const trial = projected.theta;
       const actual = Float64Array.from(free, (k) => trial[k]! - theta[k]!);
       const pnorm = scaledNorm(Df, actual);

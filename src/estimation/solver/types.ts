@@ -32,6 +32,13 @@ export interface LeastSquaresProblem {
   /** Bounds on theta (same length as the start; -Infinity / Infinity allowed). Default: none. */
   lower?: ArrayLike<number>;
   upper?: ArrayLike<number>;
+  /**
+   * Largest change of each entry in one trial step (Infinity or absent: no limit). A longer step
+   * is cut entry by entry, like a bound, and judged by the linear model of the step actually taken.
+   * For entries whose linear model is trusted only over a limited range whatever their column
+   * norm says, e.g. logarithms of parameters (see fit-core.ts). Default: no limit.
+   */
+  maxStep?: ArrayLike<number>;
 }
 
 /** One trial step, reported to `onIteration`. */
