@@ -15,7 +15,8 @@
  * typo than intent, and mathjs would read `5 kg` as a product with a symbol named kg.
  * Line breaks inside an expression count as spaces (YAML block scalars may keep them).
  */
-import { parse, type MathNode } from 'mathjs';
+import type { MathNode } from 'mathjs';
+import { parse } from '../util/mathjs.js';
 import type { ProblemList, SourceLocation } from '../errors.js';
 import { LIMITS } from './load/limits.js';
 import { orList, suggestion } from './load/nearest.js';

@@ -2,7 +2,8 @@
  * The unit vocabulary: a private mathjs instance (so that registering units never leaks into other
  * users of mathjs) with the units engineers log that mathjs lacks.
  */
-import { all, create, type MathJsInstance, type Unit } from 'mathjs';
+import type { MathJsInstance, Unit } from 'mathjs';
+import { all, create } from '../util/mathjs.js';
 
 export const unitMath: MathJsInstance = create(all, {});
 

@@ -6,24 +6,20 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
+import { mathjs as mathjsUsedByRigcal } from '../../src/util/mathjs.js';
 import { rigcal, scratchDir } from './run-cli.js';
 
 // "Nothing executed": mathjs's evaluate/compile must never run on model text (the model is
 // parsed, checked and turned into generated code only), and a setter trap on globalThis catches
 // any assignment to `rigcalPwned` from an expression.
-vi.mock('mathjs', async (importOriginal) => {
-  const orig = await importOriginal<typeof import('mathjs')>();
-  return {
-    ...orig,
-    evaluate: vi.fn(() => {
-      throw new Error('mathjs evaluate must never run on model text');
-    }),
-    compile: vi.fn(() => {
-      throw new Error('mathjs compile must never run on model text');
-    }),
-  };
+// The mathjs the library really uses (src/util/mathjs.ts): its evaluate/compile throw if called.
+const mathjs = mathjsUsedByRigcal;
+vi.spyOn(mathjs, 'evaluate').mockImplementation(() => {
+  throw new Error('mathjs evaluate must never run on model text');
 });
-const mathjs = await import('mathjs');
+vi.spyOn(mathjs, 'compile').mockImplementation(() => {
+  throw new Error('mathjs compile must never run on model text');
+});
 const pwned = vi.fn();
 beforeAll(() => {
   Object.defineProperty(globalThis, 'rigcalPwned', { set: pwned, get: () => undefined, configurable: true });

@@ -18,7 +18,8 @@
  * placeholders: d E/ds = dE'/ds + sum_h dE'/dh * dh/ds. Shared subexpressions as placeholders keep
  * the work linear in the size of the expression (a tree copy of a DAG can be exponentially large).
  */
-import { ConstantNode, FunctionNode, OperatorNode, SymbolNode, derivative, type MathNode } from 'mathjs';
+import type { MathNode } from 'mathjs';
+import { ConstantNode, FunctionNode, OperatorNode, SymbolNode, derivative } from '../../util/mathjs.js';
 import { fromMathjs } from './from-mathjs.js';
 import type { ExprPool } from './ir.js';
 

@@ -8,23 +8,19 @@
  */
 import { readdirSync } from 'node:fs';
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
+import { mathjs as mathjsUsedByRigcal } from '../../../src/util/mathjs.js';
 import { UserError, type Problem } from '../../../src/errors.js';
 import { loadModel } from '../../../src/model/load/index.js';
 import { cleanTempDirs, problemsOf, spring, SPRING, tempDir } from './helpers.js';
 
-vi.mock('mathjs', async (importOriginal) => {
-  const orig = await importOriginal<typeof import('mathjs')>();
-  return {
-    ...orig,
-    evaluate: vi.fn(() => {
-      throw new Error('mathjs evaluate must never run on model text');
-    }),
-    compile: vi.fn(() => {
-      throw new Error('mathjs compile must never run on model text');
-    }),
-  };
+// The mathjs the library really uses (src/util/mathjs.ts): its evaluate/compile throw if called.
+const mathjs = mathjsUsedByRigcal;
+vi.spyOn(mathjs, 'evaluate').mockImplementation(() => {
+  throw new Error('mathjs evaluate must never run on model text');
 });
-const mathjs = await import('mathjs');
+vi.spyOn(mathjs, 'compile').mockImplementation(() => {
+  throw new Error('mathjs compile must never run on model text');
+});
 
 const pwned = vi.fn();
 beforeAll(() => {
