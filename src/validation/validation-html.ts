@@ -7,14 +7,13 @@
 import { residualDiagnostics, residualOf } from '../diagnostics/index.js';
 import type { ResidualSeries } from '../estimation/fit-api.js';
 import type { FitResult, OutputResult } from '../estimation/fit-result.js';
-import { html, raw } from '../reports/html/escape-html.js';
+import { html } from '../reports/html/escape-html.js';
 import { experimentsSection } from '../reports/html/experiments-section.js';
 import { formatNumber, withUnit } from '../reports/html/format-number.js';
 import type { ShownOutput } from '../reports/html/output-diagnostics.js';
-import { REPORT_CSS } from '../reports/html/style.js';
+import { pageHead } from '../reports/html/page-head.js';
 import type { ValidationResult } from './validation-result.js';
 
-const CSP = "default-src 'none'; style-src 'unsafe-inline'; img-src data:";
 
 /** Noise levels from the estimates, to show beside the RMSE (output -> sigma, estimated?). */
 export type NoiseLevels = Record<string, { sigma: number; estimated: boolean }>;
@@ -53,16 +52,7 @@ export async function renderValidationReport(result: ValidationResult, series: r
   const rows = result.outputs.map(
     (o) => html`<tr><td>${o.experiment}</td><td>${o.output}</td><td class="num">${o.samples}${o.missing ? ` (${o.missing} missing)` : ''}</td><td class="num">${withUnit(o.rmse, o.unit)}</td><td class="num">${formatNumber(o.nrmse, 3)}</td><td class="num">${formatNumber(o.r2, 4)}</td><td>${o.whiteness ? (o.whiteness.white ? 'white' : 'not white') : 'not judged'}</td></tr>`,
   );
-  const page = html`<!doctype html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="${CSP}">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="generator" content="rigcal ${result.version}">
-<title>${result.model.name}: validation report</title>
-<style>${raw(REPORT_CSS)}</style>
-</head>
+  const page = html`${pageHead(`${result.model.name}: validation report`, result.version)}
 <body>
 <header class="top">
 <h1>${result.model.name}</h1>

@@ -5,32 +5,21 @@
 import type { ResidualSeries } from '../../estimation/fit-api.js';
 import type { FitResult } from '../../estimation/fit-result.js';
 import { correlationSection } from './correlation-section.js';
-import { html, raw } from './escape-html.js';
+import { html } from './escape-html.js';
 import { experimentsSection } from './experiments-section.js';
 import { headerSection } from './header-section.js';
 import { identifiabilitySection } from './identifiability-section.js';
 import { outputForDisplay } from './output-diagnostics.js';
+import { pageHead } from './page-head.js';
 import { parametersSection } from './parameters-section.js';
 import { provenanceSection } from './provenance-section.js';
 import { qualitySection } from './quality-section.js';
-import { REPORT_CSS } from './style.js';
-
-const CSP = "default-src 'none'; style-src 'unsafe-inline'; img-src data:";
 
 /** Renders the report. Asynchronous because vega renders its SVG asynchronously. */
 export async function renderFitReport(fit: FitResult, series: readonly ResidualSeries[]): Promise<string> {
   const shown = series.map((s) => outputForDisplay(fit, s));
   const hasValidation = shown.some((s) => s.series.role === 'validation');
-  const page = html`<!doctype html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="${raw(CSP)}">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="generator" content="rigcal ${fit.version}">
-<title>${fit.model.name}: calibration report</title>
-<style>${raw(REPORT_CSS)}</style>
-</head>
+  const page = html`${pageHead(`${fit.model.name}: calibration report`, fit.version)}
 <body>
 ${headerSection(fit, hasValidation)}
 ${parametersSection(fit)}
