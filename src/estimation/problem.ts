@@ -165,6 +165,17 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
   let lastJacobianTheta: number[] | undefined;
   let kept: { theta: number[]; results: SimulationResult[] } | undefined;
 
+  /** A simulation at a trial point: a RunFailure (diverged, stiff...) is a failed trial, kept for its words. */
+  const trialSimulation = (fitIndex: number, p: Float64Array, options?: { sensitivitySlots: readonly number[] }): SimulationResult | null => {
+    try {
+      return sim.simulateExperiment(compiled, fitData[fitIndex], p, options);
+    } catch (err) {
+      if (!(err instanceof RunFailure)) throw err;
+      problem.lastFailure = err;
+      return null;
+    }
+  };
+
   const problem: EstimationProblem = {
     compiled,
     fitData,
@@ -199,18 +210,9 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
       const r = new Float64Array(nResiduals);
       const results: SimulationResult[] = [];
       for (let fitIndex = 0; fitIndex < fitData.length; fitIndex++) {
-        let res: SimulationResult;
-        try {
-          counters.simulations++;
-          res = sim.simulateExperiment(compiled, fitData[fitIndex], problem.paramsFor(theta, fitIndex));
-        } catch (err) {
-          if (err instanceof RunFailure) {
-            problem.lastFailure = err;
-            return null;
-          }
-          throw err;
-        }
-        if (!fillResiduals(fitIndex, res, r)) return null;
+        counters.simulations++;
+        const res = trialSimulation(fitIndex, problem.paramsFor(theta, fitIndex));
+        if (!res || !fillResiduals(fitIndex, res, r)) return null;
         results.push(res);
       }
       lastPlain = { theta: theta.slice(), results };
@@ -237,19 +239,10 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
       const r = new Float64Array(nResiduals);
       const J = new Float64Array(nResiduals * nTheta);
       for (let fitIndex = 0; fitIndex < fitData.length; fitIndex++) {
-        let res: SimulationResult;
         const p = problem.paramsFor(theta, fitIndex);
-        try {
-          counters.sensitivitySimulations++;
-          res = sim.simulateExperiment(compiled, fitData[fitIndex], p, { sensitivitySlots: slots });
-        } catch (err) {
-          if (err instanceof RunFailure) {
-            problem.lastFailure = err;
-            return null;
-          }
-          throw err;
-        }
-        if (!fillResiduals(fitIndex, res, r)) return null;
+        counters.sensitivitySimulations++;
+        const res = trialSimulation(fitIndex, p, { sensitivitySlots: slots });
+        if (!res || !fillResiduals(fitIndex, res, r)) return null;
         const sens = res.sensitivities;
         if (!sens) throw new Error('the simulator returned no sensitivities');
         const q = slots.length;
