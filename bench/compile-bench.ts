@@ -10,33 +10,12 @@
 import { cpus, loadavg } from 'node:os';
 import { pathToFileURL } from 'node:url';
 import { compileModel } from '../src/model/compile/index.js';
-import type { Model } from '../src/model/types.js';
-import { linearModel, makeModel } from '../test/model/compile/helpers.js';
+import { flywheel, linearModel } from '../test/model/compile/helpers.js';
 
 export interface BenchRow {
   model: string;
   what: string;
   nsPerCall: number;
-}
-
-function flywheel(): Model {
-  return makeModel({
-    states: { i: 0, w: 'w0' },
-    inputs: { V: {} },
-    params: {
-      R: 1.92,
-      J: 3.1e-3,
-      L: { free: [1e-4, 1e-1], start: 2e-3 },
-      K: { free: [1e-3, 1], start: 0.05 },
-      b: { free: [0, 1e-2], start: 5e-3 },
-      Tc: { free: [0, 0.2], start: 0.1 },
-      ws: 0.5,
-      w0: { free: [-5, 5], start: 0 },
-    },
-    defines: { torque_friction: 'b*w + Tc*tanh(w/ws)' },
-    equations: { i: '(V - R*i - K*w) / L', w: '(K*i - torque_friction) / J' },
-    outputs: { current: 'i', speed: 'w' },
-  });
 }
 
 type Vec = Float64Array;

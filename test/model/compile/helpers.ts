@@ -150,3 +150,26 @@ export function rk4(f: (t: number, z: Float64Array, dz: Float64Array) => void, z
   }
   return z;
 }
+
+/** The flywheel rig of the model-format example (a scenario of the spec, values from there). */
+export function flywheel(): Model {
+  // The flywheel model of model-format.md (a scenario of the spec, values from there).
+  return makeModel({
+    states: { i: 0, w: 'w0' },
+    inputs: { V: {} },
+    params: {
+      R: 1.92,
+      J: 3.1e-3,
+      L: { free: [1e-4, 1e-1], start: 2e-3 },
+      K: { free: [1e-3, 1], start: 0.05 },
+      b: { free: [0, 1e-2], start: 5e-3 },
+      Tc: { free: [0, 0.2], start: 0.1 },
+      ws: 0.5,
+      w0: { free: [-5, 5], start: 0 },
+    },
+    defines: { torque_friction: 'b*w + Tc*tanh(w/ws)' },
+    equations: { i: '(V - R*i - K*w) / L', w: '(K*i - torque_friction) / J' },
+    outputs: { current: 'i', speed: 'w' },
+    experiments: [{}, { initial: { w: '2 * w0 + 1' } }],
+  });
+}
