@@ -6,36 +6,10 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
-import { mathjs as mathjsUsedByRigcal } from '../../src/util/mathjs.js';
+import { guardRunsNothing } from '../helpers/runs-nothing.js';
 import { rigcal, scratchDir } from './run-cli.js';
 
-// "Nothing executed": mathjs's evaluate/compile must never run on model text (the model is
-// parsed, checked and turned into generated code only), and a setter trap on globalThis catches
-// any assignment to `rigcalPwned` from an expression.
-// The mathjs the library really uses (src/util/mathjs.ts): its evaluate/compile throw if called.
-const mathjs = mathjsUsedByRigcal;
-vi.spyOn(mathjs, 'evaluate').mockImplementation(() => {
-  throw new Error('mathjs evaluate must never run on model text');
-});
-vi.spyOn(mathjs, 'compile').mockImplementation(() => {
-  throw new Error('mathjs compile must never run on model text');
-});
-const pwned = vi.fn();
-beforeAll(() => {
-  Object.defineProperty(globalThis, 'rigcalPwned', { set: pwned, get: () => undefined, configurable: true });
-});
-afterAll(() => {
-  delete (globalThis as Record<string, unknown>).rigcalPwned;
-});
-const nodeCompile = vi.spyOn(mathjs.Node.prototype, 'compile');
-const nodeEvaluate = vi.spyOn(mathjs.Node.prototype, 'evaluate');
-afterEach(() => {
-  expect(mathjs.evaluate).not.toHaveBeenCalled();
-  expect(mathjs.compile).not.toHaveBeenCalled();
-  expect(nodeCompile).not.toHaveBeenCalled();
-  expect(nodeEvaluate).not.toHaveBeenCalled();
-  expect(pwned).not.toHaveBeenCalled();
-});
+guardRunsNothing();
 
 const root = join(import.meta.dirname, '..', '..');
 const scratch = scratchDir('check');

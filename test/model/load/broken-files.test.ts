@@ -8,38 +8,13 @@
  */
 import { readdirSync } from 'node:fs';
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
-import { mathjs as mathjsUsedByRigcal } from '../../../src/util/mathjs.js';
+import { guardRunsNothing } from '../../helpers/runs-nothing.js';
 import { UserError, type Problem } from '../../../src/errors.js';
 import { loadModel } from '../../../src/model/load/index.js';
 import { cleanTempDirs, problemsOf, spring, SPRING, tempDir } from './helpers.js';
 
-// The mathjs the library really uses (src/util/mathjs.ts): its evaluate/compile throw if called.
-const mathjs = mathjsUsedByRigcal;
-vi.spyOn(mathjs, 'evaluate').mockImplementation(() => {
-  throw new Error('mathjs evaluate must never run on model text');
-});
-vi.spyOn(mathjs, 'compile').mockImplementation(() => {
-  throw new Error('mathjs compile must never run on model text');
-});
-
-const pwned = vi.fn();
-beforeAll(() => {
-  Object.defineProperty(globalThis, 'rigcalPwned', { set: pwned, get: () => undefined, configurable: true });
-});
-afterAll(() => {
-  delete (globalThis as Record<string, unknown>).rigcalPwned;
-  cleanTempDirs();
-});
-const nodeCompile = vi.spyOn(mathjs.Node.prototype, 'compile');
-const nodeEvaluate = vi.spyOn(mathjs.Node.prototype, 'evaluate');
-afterEach(() => {
-  expect(mathjs.evaluate).not.toHaveBeenCalled();
-  expect(mathjs.compile).not.toHaveBeenCalled();
-  expect(nodeCompile).not.toHaveBeenCalled();
-  expect(nodeEvaluate).not.toHaveBeenCalled();
-  expect(pwned).not.toHaveBeenCalled();
-  expect(({} as Record<string, unknown>).fixed).toBeUndefined();
-});
+guardRunsNothing();
+afterAll(cleanTempDirs);
 
 /** 1-based column of `needle` in line `line` of `text` (computed from the input, not from our output). */
 function colOf(text: string, line: number, needle: string): number {
