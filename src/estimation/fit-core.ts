@@ -5,7 +5,7 @@
  * multistart, residual diagnostics) come in as `FitDeps`, so that this file is about the order of
  * the work and nothing else; fit.ts wires the real ones.
  */
-import type { Matrix } from 'ml-matrix';
+import type { RowMajorMatrix } from './solver/row-major.js';
 import { RunFailure, UserError } from '../errors.js';
 import type { ExperimentData } from '../data/types.js';
 import type { CompiledModel } from '../model/compiled-types.js';
@@ -24,7 +24,7 @@ import type { MultistartEntry, MultistartOptions, MultistartOutcome } from './mu
 
 export interface UncertaintyInput {
   /** Weighted Jacobian at the optimum, in the optimiser's coordinates. */
-  jacobian: Matrix;
+  jacobian: RowMajorMatrix;
   residuals: Float64Array;
   /** The optimum in the optimiser's coordinates, and the entries' names. */
   theta: number[];
@@ -47,7 +47,7 @@ export interface UncertaintyOutput {
   warnings: string[];
 }
 export interface IdentifiabilityInput {
-  jacobian: Matrix;
+  jacobian: RowMajorMatrix;
   /** The optimum in the optimiser's coordinates. */
   theta: number[];
   names: string[];

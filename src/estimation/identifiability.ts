@@ -18,7 +18,7 @@
  * practice, no source: a correlation that close to 1 means the data hardly separate the two).
  */
 import type { IdentifiabilityProblem } from './fit-result.js';
-import { toJacobianMatrix } from './solver/dense.js';
+import { toRowMajor } from './solver/row-major.js';
 import { meaningfulChanges, NULL_COMPONENT, scaledSvd, SINGULAR_THRESHOLD } from './solver/scaled-svd.js';
 import type { JacobianInput } from './solver/types.js';
 
@@ -123,7 +123,7 @@ function describeGroup(names: string[], relative: number[]): string | null {
 
 export function analyseIdentifiability(input: IdentifiabilityInput): IdentifiabilityResult {
   const p = input.theta.length;
-  const J = toJacobianMatrix(input.jacobian, input.observations, p);
+  const J = toRowMajor(input.jacobian, input.observations, p);
   const scales = input.scales ?? new Array<'log' | 'linear'>(p).fill('linear');
   const svd = scaledSvd(J, input.singularThreshold ?? SINGULAR_THRESHOLD, meaningfulChanges(input.theta, scales));
   const sv = svd.singularValues;

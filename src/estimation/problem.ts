@@ -13,7 +13,7 @@
  * in linear coordinates and `value` in log coordinates. A per-experiment copy only has a nonzero
  * column in the rows of its own experiment.
  */
-import type { Matrix } from 'ml-matrix';
+import { type JacobianInput, type RowMajorMatrix, toRowMajor } from './solver/row-major.js';
 import { RunFailure } from '../errors.js';
 import type { CompiledModel } from '../model/compiled-types.js';
 import type { ExperimentData } from '../data/types.js';
@@ -90,7 +90,7 @@ export interface EstimationProblem {
    * weighting (sigma_from / sigma_now per output): a refit after the noise levels changed starts
    * from them without simulating again.
    */
-  reweighted(residuals: Float64Array, jacobian: Matrix, from: readonly number[]): { residuals: Float64Array; jacobian: Matrix };
+  reweighted(residuals: Float64Array, jacobian: JacobianInput, from: readonly number[]): { residuals: Float64Array; jacobian: RowMajorMatrix };
   counters: { simulations: number; sensitivitySimulations: number };
   /** The last simulation failure seen (for messages when every trial fails). */
   lastFailure?: RunFailure;
@@ -221,14 +221,15 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
     },
     reweighted(residuals, jacobian, from) {
       const r = Float64Array.from(residuals);
-      const J = jacobian.clone();
+      const J = toRowMajor(jacobian, r.length, nTheta).clone();
+      const data = J.data;
       for (const b of blocks) {
         const f = from[b.output] / weights[b.output];
         if (f === 1) continue;
         for (let s = 0; s < b.samples.length; s++) {
           const i = b.offset + s;
           r[i] *= f;
-          for (let k = 0; k < J.columns; k++) J.set(i, k, J.get(i, k) * f);
+          for (let k = i * nTheta; k < (i + 1) * nTheta; k++) data[k] *= f;
         }
       }
       return { residuals: r, jacobian: J };

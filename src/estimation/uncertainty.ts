@@ -20,8 +20,7 @@
  * be symmetric but can cross zero and covers less when se_theta is large.
  */
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
-import type { Matrix } from 'ml-matrix';
-import { toJacobianMatrix } from './solver/dense.js';
+import { toRowMajor } from './solver/row-major.js';
 import { meaningfulChanges, scaledSvd, SINGULAR_THRESHOLD } from './solver/scaled-svd.js';
 import type { JacobianInput } from './solver/types.js';
 
@@ -89,7 +88,7 @@ function formatNumber(x: number): string {
 export function computeUncertainty(input: UncertaintyInput): UncertaintyResult {
   const p = input.theta.length;
   const n = input.residuals.length;
-  const J: Matrix = toJacobianMatrix(input.jacobian, n, p);
+  const J = toRowMajor(input.jacobian, n, p);
   const scales = input.scales ?? new Array<'log' | 'linear'>(p).fill('linear');
   const warnings: string[] = [];
 

@@ -12,47 +12,31 @@
  *
  * cost = sum of squared residuals (SSE) throughout.
  */
-import { Matrix, QrDecomposition } from 'ml-matrix';
 import { RunFailure } from '../../errors.js';
 import { boundStatus, movableEntries, project } from './bounds.js';
 import { dampedStep } from './damped-step.js';
 import { SOLVER_DEFAULTS } from './defaults.js';
-import { allFinite, columnNorms, matrixAllFinite, multiplyColumns, norm2, scaledNorm, toJacobianMatrix, transposeTimes } from './dense.js';
+import { allFinite, norm2, scaledNorm } from './dense.js';
+import { columnNorms, multiplyColumns, RowMajorMatrix, toRowMajor, transposeTimes } from './row-major.js';
+import { triangularFactor } from './tall-qr.js';
 import type { LeastSquaresProblem, SolverOptions, SolverResult, StopReason } from './types.js';
 
 const EPS = 2.220446049250313e-16;
 /** A step is taken when it achieves at least this share of the predicted reduction (MINPACK's 1e-4). */
 const ACCEPT_RATIO = 1e-4;
 
-type Evaluation = { ok: true; residuals: Float64Array; jacobian?: Matrix } | { ok: false; why: string };
+type Evaluation = { ok: true; residuals: Float64Array; jacobian?: RowMajorMatrix } | { ok: false; why: string };
 
 function describeFailure(err: unknown): string {
   return err instanceof Error ? err.message : String(err);
-}
-
-/** Reduce J's columns `cols` to R (square, upper triangular) and Q^T r, via ml-matrix's Householder QR. */
-function reduce(j: Matrix, cols: readonly number[], r: Float64Array): { R: Matrix; qtr: Float64Array } {
-  const p = cols.length;
-  const rows = Math.max(j.rows, p); // zero rows change nothing and keep the factorisation square-or-tall
-  const a = new Matrix(rows, p);
-  for (let i = 0; i < j.rows; i++) for (let k = 0; k < p; k++) a.set(i, k, j.get(i, cols[k] as number));
-  const qr = new QrDecomposition(a);
-  const q = qr.orthogonalMatrix;
-  const qtr = new Float64Array(p);
-  for (let k = 0; k < p; k++) {
-    let s = 0;
-    for (let i = 0; i < j.rows; i++) s += q.get(i, k) * (r[i] as number);
-    qtr[k] = s;
-  }
-  return { R: qr.upperTriangularMatrix, qtr };
 }
 
 /** The caller's evaluation at the start, checked like one of ours; undefined when unusable. */
 function takeInitial(initial: NonNullable<SolverOptions['initial']>, p: number): Evaluation | undefined {
   const residuals = Float64Array.from(initial.residuals);
   if (!allFinite(residuals)) return undefined;
-  const jacobian = toJacobianMatrix(initial.jacobian, residuals.length, p);
-  return matrixAllFinite(jacobian) ? { ok: true, residuals, jacobian } : undefined;
+  const jacobian = toRowMajor(initial.jacobian, residuals.length, p);
+  return allFinite(jacobian.data) ? { ok: true, residuals, jacobian } : undefined;
 }
 
 function fmt(x: number): string {
@@ -104,8 +88,8 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
         } else {
           out = checkResiduals(rj.residuals);
           if (out.ok) {
-            const jac = toJacobianMatrix(rj.jacobian, out.residuals.length, p);
-            out = matrixAllFinite(jac) ? { ...out, jacobian: jac } : { ok: false, why: 'some Jacobian entries are not finite numbers' };
+            const jac = toRowMajor(rj.jacobian, out.residuals.length, p);
+            out = allFinite(jac.data) ? { ...out, jacobian: jac } : { ok: false, why: 'some Jacobian entries are not finite numbers' };
           }
         }
       } else {
@@ -139,7 +123,7 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
       theta,
       cost: Number.NaN,
       residuals: new Float64Array(0),
-      jacobian: new Matrix(0, p),
+      jacobian: RowMajorMatrix.zeros(0, p),
       gradientNorm: Number.NaN,
       scaledGradient: Number.NaN,
       iterations: 0,
@@ -231,7 +215,7 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
       return finish();
     }
 
-    const { R, qtr } = reduce(J, free, r);
+    const { R, qtr } = triangularFactor(J, free, r);
     const Df = Float64Array.from(free, (k) => D[k]!);
 
     // On request, the Gauss-Newton certificate of the stopping tests before a trial is spent: no step

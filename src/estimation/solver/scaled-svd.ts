@@ -7,6 +7,8 @@
  * d = column norms (a zero column, or one without influence, shows up as a zero singular value).
  */
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
+import { columnNorms, type RowMajorMatrix } from './row-major.js';
+import { triangularFactor } from './tall-qr.js';
 
 /**
  * A singular value below this fraction of the largest marks a direction the data do not determine.
@@ -57,18 +59,21 @@ export interface ScaledSvd {
   undetermined: boolean[];
 }
 
-export function scaledSvd(j: Matrix, threshold = SINGULAR_THRESHOLD, meaningfulChange?: readonly number[]): ScaledSvd {
+export function scaledSvd(j: RowMajorMatrix, threshold = SINGULAR_THRESHOLD, meaningfulChange?: readonly number[]): ScaledSvd {
   const p = j.columns;
-  const rows = Math.max(j.rows, p); // zero rows keep the SVD square-or-tall, so V is a full basis
-  const js = new Matrix(rows, p);
+  // J = Q R with Q orthogonal, so J D^-1 and R D^-1 have the same singular values and right
+  // singular vectors, and the column norms of J are those of R: the SVD works on p x p, not on the
+  // whole tall J (24,000 rows on the flywheel demo).
+  const { R } = triangularFactor(j);
+  const norms = columnNorms(j);
+  const js = new Matrix(p, p);
   const d = new Float64Array(p);
   for (let k = 0; k < p; k++) {
-    let s = 0;
-    for (let i = 0; i < j.rows; i++) s = Math.hypot(s, j.get(i, k));
+    const s = norms[k]!;
     const noInfluence = meaningfulChange !== undefined && s * meaningfulChange[k]! < NO_INFLUENCE;
     d[k] = s > 0 && !noInfluence ? s : 1;
     if (noInfluence) continue; // left zero: a zero singular value whose direction is this parameter
-    for (let i = 0; i < j.rows; i++) js.set(i, k, j.get(i, k) / d[k]!);
+    for (let i = 0; i <= k; i++) js.set(i, k, R.get(i, k) / d[k]!);
   }
   const svd = new SingularValueDecomposition(js, { computeLeftSingularVectors: false, computeRightSingularVectors: true, autoTranspose: false });
   // ml-matrix returns them largest first; sort anyway, carrying the vectors, so callers can rely on it.

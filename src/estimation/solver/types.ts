@@ -8,13 +8,13 @@
  * times a plain simulation: `residuals` is called for trial points, `residualsAndJacobian` only
  * where a Jacobian is needed (at the start and after each accepted step).
  */
-import type { Matrix } from 'ml-matrix';
+import type { JacobianInput, RowMajorMatrix } from './row-major.js';
 
 /**
- * A Jacobian (rows = residuals, columns = theta entries) as an ml-matrix Matrix, as a row-major
- * Float64Array of length nResiduals * nTheta, or as an array of rows.
+ * A Jacobian (rows = residuals, columns = theta entries) as a RowMajorMatrix, an ml-matrix Matrix,
+ * a row-major Float64Array of length nResiduals * nTheta, or an array of rows.
  */
-export type JacobianInput = Matrix | Float64Array | ArrayLike<number>[];
+export type { JacobianInput };
 
 export interface ResidualsWithJacobian {
   residuals: ArrayLike<number>;
@@ -118,7 +118,7 @@ export interface SolverResult {
   cost: number;
   residuals: Float64Array;
   /** Jacobian at theta (nResiduals x nTheta); 0 x nTheta when the start failed. */
-  jacobian: Matrix;
+  jacobian: RowMajorMatrix;
   /** Largest |d cost / d theta_i| over entries not held at a bound (cost = SSE, so this is 2 |J^T r|). */
   gradientNorm: number;
   /** The scale-free gradient measure of the gradient test (largest cosine, see gradientTolerance). */

@@ -212,8 +212,11 @@ describe('solveLeastSquares with a noisy cost (as from adaptive ODE integration)
     expect(res.status).toBe('converged');
     expect(res.theta[0]).toBeCloseTo(2, 2);
     expect(res.theta[1]).toBeCloseTo(1.5, 2);
-    expect(res.reason === 'cost' || res.reason === 'cost-and-step').toBe(true);
-    expect(res.message).toContain('relative cost change');
+    // Which convergence test fires first (cost, or a step already below 1e-10 relative) depends on
+    // the last bits of the steps, since the jitter hashes theta; trial-after-trial shrinking (the
+    // failure this guards against) shows in the rejected-trial count below.
+    expect(['cost', 'cost-and-step', 'step']).toContain(res.reason);
+    expect(res.message).toMatch(/relative (cost change|step)/);
     // A rejected first trial (far start) and at most one noise-rejected trial at the end.
     expect(res.iterations).toBeLessThanOrEqual(9);
     expect(res.iterations - res.acceptedSteps).toBeLessThanOrEqual(2);
