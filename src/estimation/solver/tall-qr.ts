@@ -14,6 +14,18 @@
 import { Matrix, QrDecomposition } from 'ml-matrix';
 import type { RowMajorMatrix } from './row-major.js';
 
+/**
+ * A scratch stack that QrDecomposition may factor in place. QrDecomposition starts by cloning its
+ * input, and Matrix.clone copies entry by entry through a generator that allocates an array per
+ * entry: measured, that copy cost as much as the factorisation itself. The stack is built for one
+ * factorisation and read through the decomposition only, so its "clone" is itself.
+ */
+class ScratchMatrix extends Matrix {
+  override clone(): this {
+    return this;
+  }
+}
+
 /** Rows of J added per factorisation (measured on the flywheel fit: 256-2048 are equally fast). */
 const BLOCK_ROWS = 512;
 
@@ -39,7 +51,7 @@ export function triangularFactor(j: RowMajorMatrix, cols?: readonly number[], r?
   for (let start = 0; start < rows || top === undefined; start += BLOCK_ROWS) {
     const end = Math.min(rows, start + BLOCK_ROWS);
     const fromTop = top ? w : 0;
-    const stack = new Matrix(Math.max(fromTop + Math.max(0, end - start), w), w);
+    const stack = new ScratchMatrix(Math.max(fromTop + Math.max(0, end - start), w), w);
     for (let i = 0; i < fromTop; i++) for (let k = i; k < w; k++) stack.set(i, k, top!.get(i, k));
     for (let i = start; i < end; i++) {
       const row = i - start + fromTop;
