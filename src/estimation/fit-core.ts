@@ -150,6 +150,9 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
       maxIterations,
       ...(costTolerance !== undefined ? { costTolerance, noisyCost: true, costNoiseLimit: ODE_NOISE_STEP_IN_STANDARD_ERRORS ** 2 / dof } : {}),
       ...(initial ? { initial: initial.evaluation, costNoise: initial.costNoise } : {}),
+      // A simulation with sensitivities costs two to three plain ones: far from the optimum, a
+      // trial the linear model vouches for is simulated with them straight away (solver/types.ts).
+      ...(compiled.nStates > 0 ? { speculativeJacobian: true } : {}),
       onIteration: options.onProgress
         ? (p) => options.onProgress!({ start: startIndex, iteration: p.iteration, cost: p.cost, step: p.step, ...(message ? { message } : {}) })
         : undefined,

@@ -94,6 +94,18 @@ export interface SolverOptions {
   costNoise?: number;
   /** Upper limit on the noise the stops of `noisyCost` use (the caller's statistical bound). Default: none. */
   costNoiseLimit?: number;
+  /**
+   * Evaluate a trial point with its Jacobian straight away when it will very likely be taken: it is
+   * a Gauss-Newton step (inside the trust region), the last trial was taken with a ratio of at least
+   * 0.75 (the linear model is trusted) and this one predicts a relative gain of at least 1e-3, far
+   * above the evaluation noise. A taken step then
+   * costs one evaluation with the Jacobian instead of a plain one and one with the Jacobian; a
+   * rejected one costs a Jacobian evaluation. The residuals of such a point come from the Jacobian
+   * path, so before the next plain trial (and before returning) the point is evaluated plainly once,
+   * which keeps every comparison of costs on one path (see `initial`). For ODE fits, where a
+   * simulation with sensitivities costs two to three plain ones. Default false.
+   */
+  speculativeJacobian?: boolean;
   onIteration?: (p: SolverProgress) => void;
 }
 
