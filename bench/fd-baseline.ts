@@ -16,6 +16,7 @@ import { defaultFitDeps } from '../src/estimation/fit.js';
 import { initialNoise } from '../src/estimation/noise.js';
 import { buildProblem, type EstimationProblem } from '../src/estimation/problem.js';
 import { solveLeastSquares } from '../src/estimation/solver/index.js';
+import { solverSetup } from '../src/estimation/solver-setup.js';
 
 /** Iteration cap of the baseline (each iteration costs p + 2 simulations per fit experiment). */
 export const BASELINE_MAX_ITERATIONS = 100;
@@ -47,14 +48,12 @@ function fitProblem(model: Model, compiled: CompiledModel, data: readonly Experi
   return buildProblem(compiled, fitData, initialNoise(model, fitData).sigmas, defaultFitDeps().sim);
 }
 
-/** rigcal's solver on the first weighting (no noise refits), from the model's start. */
+/** rigcal's solver as the fit sets it up (solverSetup), on the first weighting (no noise refits), from the model's start. */
 export function ourSolve(model: Model, compiled: CompiledModel, data: readonly ExperimentData[]): SolveCount {
   const problem = fitProblem(model, compiled, data);
   const t0 = performance.now();
-  const run = solveLeastSquares(
-    { residuals: (th) => problem.residuals(th), residualsAndJacobian: (th) => problem.residualsAndJacobian(th), lower: problem.entries.map((e) => e.lower), upper: problem.entries.map((e) => e.upper) },
-    problem.startTheta(),
-  );
+  const { lsq, settings } = solverSetup(problem);
+  const run = solveLeastSquares(lsq, problem.startTheta(), settings);
   return { cost: run.cost, seconds: (performance.now() - t0) / 1000, simulations: problem.counters.simulations, sensitivitySimulations: problem.counters.sensitivitySimulations, iterations: run.iterations };
 }
 

@@ -18,7 +18,7 @@ import type { FitResult, IdentifiabilityProblem, OutputResult, ParameterResult, 
 import { aicc, bic, gaussianLogLikelihood } from './information-criteria.js';
 import { initialNoise, largestRelativeChange, MAX_SIGMA_ROUNDS, SIGMA_TOLERANCE, updatedSigmas } from './noise.js';
 import { buildProblem, perOutputSums, type EstimationProblem, type SimulatorFns } from './problem.js';
-import { SOLVER_DEFAULTS } from './solver/defaults.js';
+import { solverSetup } from './solver-setup.js';
 import type { LeastSquaresProblem, SolverOptions, SolverResult } from './solver/types.js';
 import type { MultistartEntry, MultistartOptions, MultistartOutcome } from './multistart.js';
 
@@ -113,46 +113,13 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   }
   const warnings: string[] = [];
   const maxIterations = options.maxIterations;
-  const lower = problem.entries.map((e) => e.lower);
-  const upper = problem.entries.map((e) => e.upper);
-
-  // A log-scale entry moves by at most a factor LOG_STEP_FACTOR per trial step. The trust region
-  // measures a step by its predicted effect on the residuals (column scaling), so a parameter the
-  // data barely see at the start may jump by decades in one step: in the flywheel demo the first
-  // Gauss-Newton step, driven by the wrong motor constant, asked for 7 decades of inductance, was
-  // cut at the bound 1e-4 H and stayed there for four steps, where every simulation is stiff and
-  // 25-40 times as costly; the other entries' steps hardly depend on that move. Linear entries are
-  // left alone: their ranges are at most a few decades (wider ones default to log scale). Static
-  // models keep the plain solver: a long trial costs them nothing, and the published digits of the
-  // benchmark problems are reached along the unlimited path.
-  const lsq: LeastSquaresProblem = {
-    residuals: (th) => problem.residuals(th),
-    residualsAndJacobian: (th) => problem.residualsAndJacobian(th),
-    lower,
-    upper,
-    ...(compiled.nStates > 0 ? { maxStep: problem.entries.map((e) => (e.scale === 'log' ? Math.log(LOG_STEP_FACTOR) : Infinity)) } : {}),
-  };
-  // An ODE model's cost carries integration noise (tolerances 1e-8) far above the solver's default
-  // 1e-14, which is meant for rounding noise: past some point trials only chase that noise and get
-  // rejected one by one. A predicted relative reduction e means a remaining step of sqrt(e (N - p))
-  // standard errors (solver/defaults.ts): e = 1e-6 / (N - p) leaves at most 1e-3 standard errors,
-  // far below any statistical meaning; capped at 1e-10 so that short logs keep their digits.
-  // Static models keep the default (the NIST digits need it). Where the integration noise of the
-  // cost is larger still, the solver stops when a step's predicted gain is below that noise (it
-  // cannot be judged), but never for a step longer than 0.05 standard errors.
-  // Both bounds are common practice, no source. Short logs (published benchmark problems with tens
-  // of samples) keep the defaults: their simulations are cheap and their published digits need them.
-  const dof = problem.nResiduals - problem.entries.length;
-  const costTolerance = compiled.nStates > 0 && dof >= ODE_RELAXED_FROM_DOF ? Math.max(SOLVER_DEFAULTS.costTolerance, Math.min(ODE_COST_TOLERANCE_CAP, ODE_STEP_IN_STANDARD_ERRORS ** 2 / dof)) : undefined;
+  const { lsq, settings } = solverSetup(problem);
   // Progress reports the solver's cost convention: the weighted sum of squared residuals.
   const solveFrom = (start: readonly number[], startIndex: number, message?: string, initial?: WarmStart): SolverResult =>
     deps.solve(lsq, start, {
       maxIterations,
-      ...(costTolerance !== undefined ? { costTolerance, noisyCost: true, costNoiseLimit: ODE_NOISE_STEP_IN_STANDARD_ERRORS ** 2 / dof } : {}),
+      ...settings,
       ...(initial ? { initial: initial.evaluation, costNoise: initial.costNoise } : {}),
-      // A simulation with sensitivities costs two to three plain ones: far from the optimum, a
-      // trial the linear model vouches for is simulated with them straight away (solver/types.ts).
-      ...(compiled.nStates > 0 ? { speculativeJacobian: true } : {}),
       onIteration: options.onProgress
         ? (p) => options.onProgress!({ start: startIndex, iteration: p.iteration, cost: p.cost, step: p.step, ...(message ? { message } : {}) })
         : undefined,
@@ -373,19 +340,6 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   result.wallSeconds = now() - t0;
   return { result, residuals, values: valueByName };
 }
-
-/**
- * Largest factor by which a log-scale parameter may change in one trial step (see runFit). Common
- * practice, no source; 2 keeps the demo fits on their cheap path, and a start off by two decades
- * costs at most about seven trials to cross them.
- */
-const LOG_STEP_FACTOR = 2;
-/** Largest remaining step, in standard errors, at which an ODE fit counts as converged (see runFit). */
-const ODE_STEP_IN_STANDARD_ERRORS = 1e-3;
-const ODE_COST_TOLERANCE_CAP = 1e-10;
-/** Degrees of freedom from which an ODE fit uses the relaxed stops (long logs). */
-const ODE_RELAXED_FROM_DOF = 1000;
-const ODE_NOISE_STEP_IN_STANDARD_ERRORS = 0.05;
 
 function startFailure(problem: EstimationProblem, run: SolverResult | undefined): RunFailure {
   const why = problem.lastFailure?.message ?? run?.message ?? 'the residuals could not be computed';
