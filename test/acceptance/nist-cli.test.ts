@@ -67,9 +67,11 @@ describe('NIST StRD through `rigcal fit --json` (static model files)', () => {
       rows.set(`${name}/2`, `${est.toFixed(1)}, ${se.toFixed(1)}, ${fit.iterations}, ${seconds.toFixed(2)}`);
       expect(fit.status, fit.message).toBe('converged');
       expect(est).toBeGreaterThanOrEqual(6);
-      // Lanczos1's certified residual sum of squares is 1.4e-25: its residuals, hence its standard
-      // errors, are round-off of double precision, and the certified standard deviations themselves
-      // carry about 2 digits of meaning there (NIST notes Lanczos1 as a test of precision).
+      // Lanczos1: the certified RSS (1.4e-25) cannot be reproduced in double precision (note in the
+      // shared NIST reference README: compare parameters, not the RSS). Its residuals, about 1e-13, carry
+      // round-off of a few 1e-16 from evaluating the model, so the RSS comes out a few tenths of a percent
+      // off, and the standard errors, which scale with sqrt(RSS), to 2.5-3.3 digits depending on the last
+      // bits of the optimum (measured: 2.93 through the CLI, every parameter alike, i.e. the RSS factor).
       expect(se).toBeGreaterThanOrEqual(name === 'Lanczos1' ? 2 : 3);
     }, 30_000);
   }

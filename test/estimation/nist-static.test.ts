@@ -41,8 +41,11 @@ describe('NIST StRD through fitModel (static models, start 2)', () => {
       console.log(rows[rows.length - 1]);
       expect(r.status).toBe('converged');
       expect(Math.min(...est)).toBeGreaterThanOrEqual(6);
-      // Lanczos1's certified RSS is 1.4e-25: its residuals, and so its standard errors, are round-off
-      // noise of double precision; 2 digits is what any evaluation order reaches there.
+      // Lanczos1: the certified RSS (1.4e-25) cannot be reproduced in double precision (note in the
+      // shared NIST reference README: compare parameters, not the RSS). Its residuals, about 1e-13, carry
+      // round-off of a few 1e-16 from evaluating the model, so the RSS comes out a few tenths of a percent
+      // off, and the standard errors, which scale with sqrt(RSS), to 2.5-3.3 digits depending on the last
+      // bits of the optimum (measured: 2.93 through the CLI, every parameter alike, i.e. the RSS factor).
       expect(Math.min(...se)).toBeGreaterThanOrEqual(name === 'Lanczos1' ? 2 : 3);
     });
   }
