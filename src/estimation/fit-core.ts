@@ -288,6 +288,8 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   // The solver's last point: its plain simulations are usually kept by the problem (no new run).
   const fitSims = problem.simulateAll(run.theta);
   fitData.forEach((d, i) => score(d, fitSims[i]));
+  const hint = localOptimumHint(startsInfo !== undefined, parameters, outputs);
+  if (hint) warnings.push(hint);
   const perExperiment = model.parameters.filter((s) => s.kind === 'free' && s.perExperiment).map((s) => s.name);
   for (const d of validationData) {
     // A validation experiment has no copy of a per-experiment parameter: it keeps the start value.
@@ -339,6 +341,25 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   if (summary.rounds > 1) result.message += `; noise levels settled after ${summary.rounds} fits`;
   result.wallSeconds = now() - t0;
   return { result, residuals, values: valueByName };
+}
+
+/**
+ * A fit from one start that ends with parameters on their bounds while the residuals of a fit output
+ * are not white may have stopped in a local optimum: a lightly damped resonance, for one, has a
+ * "rigid" solution that a start on the wrong side of it slides into. Said in words, with the way to
+ * look further; estimates on a bound with white residuals (a true value at the bound) say nothing.
+ */
+function localOptimumHint(multistart: boolean, parameters: readonly ParameterResult[], outputs: readonly OutputResult[]): string | undefined {
+  if (multistart) return undefined;
+  const onBound = parameters.filter((p) => p.atBound);
+  const notWhite = outputs.filter((o) => o.role === 'fit' && o.whiteness && !o.whiteness.white);
+  if (onBound.length === 0 || notWhite.length === 0) return undefined;
+  const names = onBound.map((p) => `${p.name} (${p.atBound})`).join(', ');
+  const series = notWhite.map((o) => `${o.output} in ${o.experiment}`).join(', ');
+  return (
+    `${names} ended on ${onBound.length === 1 ? 'its bound' : 'their bounds'} while the residuals of ${series} are not white: ` +
+    `the fit may have stopped in a local optimum rather than at the best fit; try several starts spread over the bounds (--starts 8)`
+  );
 }
 
 function startFailure(problem: EstimationProblem, run: SolverResult | undefined): RunFailure {

@@ -60,6 +60,7 @@ describe('estimation acceptance rigs (fit from the model\'s start values)', () =
       expect(fit.status, fit.message).toBe('converged');
       // The truth's objective, with the same sigmas, can never beat the optimum.
       expect(atEstimate.sse).toBeLessThanOrEqual(atTruth.sse * (1 + 1e-9));
+      expect(fit.warnings.join('\n')).not.toMatch(/local optimum/); // at the optimum: no false alarm
       free.forEach((p, i) => {
         expect(p.stdError, p.name).not.toBeNull();
         expect(ratios[i], `${p.name}: estimate ${p.estimate}, truth ${rig.truth[p.name]}, se ${p.stdError}`).toBeLessThan(4);
@@ -91,6 +92,8 @@ describe('estimation acceptance rigs (fit from the model\'s start values)', () =
       const atBound = fit.parameters.filter((p) => p.atBound);
       expect(atBound.length).toBeGreaterThan(0);
       for (const p of atBound) expect(fit.warnings.join('\n')).toMatch(new RegExp(`${p.name} is at its (upper|lower) bound`));
+      // ... and says that it may be a local optimum, and how to look further.
+      expect(fit.warnings.join('\n')).toMatch(/may have stopped in a local optimum.*--starts/);
     }
   }, 60_000);
 
