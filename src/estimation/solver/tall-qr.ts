@@ -26,7 +26,10 @@ class ScratchMatrix extends Matrix {
   }
 }
 
-/** Rows of J added per factorisation (measured on the flywheel fit: 256-2048 are equally fast). */
+/**
+ * Rows of J added per factorisation. Measured on a 24,000 x 4 Jacobian with r: anything from 32 to
+ * 8,192 rows per block takes 4-7 ms per factorisation, within the run-to-run spread.
+ */
 const BLOCK_ROWS = 512;
 
 export interface TriangularFactor {
