@@ -170,15 +170,15 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
 
     row(cells, line) {
       rowNumber++;
-      if (cells.length < headerCount || cells.slice(headerCount).some((c) => c !== '')) {
+      if (cells.length !== headerCount && (cells.length < headerCount || cells.slice(headerCount).some((c) => c !== ''))) {
         throw new UserError({ where: { file: shown, line }, what: `this row has ${cells.length} fields, the header (line ${headerLineNo}) has ${headerCount}`, fix: 'every row needs one value per header column (an empty field for a missing output sample)' });
       }
       let tColumnUnit: number;
       if (timeIndex >= 0) {
         const c = readCell(cells[timeIndex]);
-        if (c.kind === 'missing') throw new UserError({ where: { file: shown, line }, what: `the time column "${timeColumn}" is empty or NaN`, fix: 'every row needs a time; remove rows without one' });
-        if (c.kind === 'bad') throw badCell(line, timeColumn, cells[timeIndex], 'time');
-        tColumnUnit = c.value;
+        if (c === null) throw badCell(line, timeColumn, cells[timeIndex], 'time');
+        if (Number.isNaN(c)) throw new UserError({ where: { file: shown, line }, what: `the time column "${timeColumn}" is empty or NaN`, fix: 'every row needs a time; remove rows without one' });
+        tColumnUnit = c;
         if (tColumnUnit < firstRowTime) firstRowTime = tColumnUnit;
         if (tColumnUnit > lastRowTime) lastRowTime = tColumnUnit;
         if (win && (tColumnUnit < win[0] || tColumnUnit > win[1])) return;
@@ -191,20 +191,20 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
         const plan = inputs[j];
         const text = cells[plan.index];
         const c = readCell(text);
-        if (c.kind === 'missing') throw new UserError({ where: { file: shown, line }, what: `input column "${plan.column}" (input ${plan.name}) has a missing value ("${shownText(text)}")`, fix: 'inputs drive the simulation and cannot be missing: fill the gap in the log or window it out' });
-        if (c.kind === 'bad') throw badCell(line, plan.column, text, `input ${plan.name}:`);
-        inputCols[j].push(plan.convert(c.value));
+        if (c === null) throw badCell(line, plan.column, text, `input ${plan.name}:`);
+        if (Number.isNaN(c)) throw new UserError({ where: { file: shown, line }, what: `input column "${plan.column}" (input ${plan.name}) has a missing value ("${shownText(text)}")`, fix: 'inputs drive the simulation and cannot be missing: fill the gap in the log or window it out' });
+        inputCols[j].push(plan.convert(c));
       }
       for (let j = 0; j < outputs.length; j++) {
         const plan = outputs[j];
         if (plan.index < 0) continue;
         const text = cells[plan.index];
         const c = readCell(text);
-        if (c.kind === 'bad') throw badCell(line, plan.column, text, `output ${plan.name}:`);
-        if (c.kind === 'missing') {
+        if (c === null) throw badCell(line, plan.column, text, `output ${plan.name}:`);
+        if (Number.isNaN(c)) {
           missing[j]++;
           outputCols[j].push(NaN);
-        } else outputCols[j].push(plan.convert(c.value));
+        } else outputCols[j].push(plan.convert(c));
       }
     },
   });

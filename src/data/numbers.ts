@@ -2,17 +2,16 @@
 
 const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
-export type Cell =
-  | { kind: 'number'; value: number }
-  | { kind: 'missing' }
-  | { kind: 'bad' };
-
-/** Empty cells, `NaN` and `nan` mark a missing sample; anything else must be a decimal number. */
-export function readCell(text: string): Cell {
-  if (text === '' || text === 'NaN' || text === 'nan') return { kind: 'missing' };
-  if (!DECIMAL.test(text)) return { kind: 'bad' };
+/**
+ * A cell's value: the number; NaN for a missing sample (an empty cell, `NaN` or `nan`); null when the
+ * cell is anything else than a decimal number. A number, not an object per cell: a 1,000,000-row
+ * log has millions of cells, and one small object each made reading it a third slower.
+ */
+export function readCell(text: string): number | null {
+  if (text === '' || text === 'NaN' || text === 'nan') return Number.NaN;
+  if (!DECIMAL.test(text)) return null;
   const value = Number(text);
-  return Number.isFinite(value) ? { kind: 'number', value } : { kind: 'bad' };
+  return Number.isFinite(value) ? value : null;
 }
 
 /** A hint for a common reason a cell is not a number. */

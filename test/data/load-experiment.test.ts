@@ -175,6 +175,19 @@ describe('readCsv', () => {
     expect(e.problems[0].where.line).toBe(4);
   });
 
+  it('numbers lines as a reader of the file counts them: CRLF, comments, blank and space-only lines, quoted line breaks', () => {
+    const text = '# log\r\nt,note\r\n0,a\r\n   \r\n\r\n# mid\r\n1,"two\r\nlines"\r\n2,b\r\n';
+    const file = csvFile('lines.csv', text);
+    const seen: [string, number][] = [];
+    readCsv(file, 'lines.csv', { header: (h, line) => seen.push([h.join('|'), line]), row: (r, line) => seen.push([r.join('|'), line]) });
+    // A record with a quoted line break is numbered by the line it ends on.
+    expect(seen).toEqual([['t|note', 2], ['0|a', 3], ['1|two\r\nlines', 8], ['2|b', 9]]);
+    const open = csvFile('open.csv', 't,u\n0,1\n1,"2\n');
+    const e = userError(() => readCsv(open, 'open.csv', { header: () => {}, row: () => {} }));
+    expect(e.problems[0].where.line).toBe(3);
+    expect(e.message).toMatch(/not valid CSV/);
+  });
+
   it('reads CRLF line ends and a byte-order mark', () => {
     const file = csvFile('crlf.csv', '\uFEFFt;u\r\n0;1\r\n1;2\r\n');
     const rows: string[][] = [];

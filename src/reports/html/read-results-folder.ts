@@ -5,7 +5,7 @@
  */
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
-import { parse } from 'csv-parse/sync';
+import Papa from 'papaparse';
 import { UserError } from '../../errors.js';
 import type { ResidualSeries } from '../../estimation/fit-api.js';
 import type { FitResult } from '../../estimation/fit-result.js';
@@ -70,12 +70,16 @@ export function readResidualsCsv(file: string, fit: FitResult): ResidualSeries[]
   if (size > MAX_RESIDUALS_BYTES) {
     throw new UserError({ where: { file }, what: `residuals.csv is ${(size / 2 ** 20).toFixed(0)} MiB, more than the ${MAX_RESIDUALS_BYTES / 2 ** 20} MiB a report reads`, fix: 'shorten the experiments (window) or thin the logs before fitting' });
   }
-  let rows: string[][];
-  try {
-    rows = parse(readFileSync(file, 'utf8'), { relax_column_count: false, skip_empty_lines: true }) as string[][];
-  } catch (err) {
-    const e = err as Error & { lines?: number };
-    throw new UserError({ where: { file, line: e.lines }, what: `residuals.csv cannot be read as CSV (${e.message})`, fix: 'run `rigcal fit` again to rewrite the results folder' });
+  // rigcal writes residuals.csv without comments or blank lines, so row i is line i + 1.
+  const parsed = Papa.parse<string[]>(readFileSync(file, 'utf8').replace(/^\uFEFF/, ''), { skipEmptyLines: true });
+  const rows = parsed.data;
+  const broken = parsed.errors[0];
+  if (broken) {
+    throw new UserError({ where: { file, line: (broken.row ?? 0) + 1 }, what: `residuals.csv cannot be read as CSV (${broken.message})`, fix: 'run `rigcal fit` again to rewrite the results folder' });
+  }
+  const ragged = rows.findIndex((r) => r.length !== rows[0]!.length);
+  if (ragged > 0) {
+    throw new UserError({ where: { file, line: ragged + 1 }, what: `residuals.csv has ${rows[ragged]!.length} fields on this line and ${rows[0]!.length} in its header`, fix: 'run `rigcal fit` again to rewrite the results folder' });
   }
   if (rows.length === 0) throw new UserError({ where: { file }, what: 'residuals.csv is empty', fix: 'run `rigcal fit` again' });
   const header = rows[0];

@@ -79,6 +79,37 @@ describe('readResultsFolder', () => {
   });
 });
 
+describe('readResultsFolder on a damaged residuals.csv', () => {
+  const problemOf = (dir: string) => {
+    try {
+      readResultsFolder(dir);
+    } catch (e) {
+      return (e as UserError).problems[0]!;
+    }
+    throw new Error('no error');
+  };
+
+  it('names the line of a row with a field too many or too few', () => {
+    const { dir } = writeDemoFolder(50);
+    const csv = readFileSync(join(dir, 'residuals.csv'), 'utf8').split('\n');
+    csv[6] = csv[6] + ',1.5';
+    writeFileSync(join(dir, 'residuals.csv'), csv.join('\n'));
+    const p = problemOf(dir);
+    expect(p.where).toMatchObject({ file: join(dir, 'residuals.csv'), line: 7 });
+    expect(p.what).toMatch(/fields on this line/);
+  });
+
+  it('names the line where a quoted field never closes', () => {
+    const { dir } = writeDemoFolder(50);
+    const csv = readFileSync(join(dir, 'residuals.csv'), 'utf8').split('\n');
+    csv[4] = '"' + csv[4];
+    writeFileSync(join(dir, 'residuals.csv'), csv.join('\n'));
+    const p = problemOf(dir);
+    expect(p.where).toMatchObject({ file: join(dir, 'residuals.csv'), line: 5 });
+    expect(p.what).toMatch(/cannot be read as CSV/);
+  });
+});
+
 describe('rigcal report DIR', () => {
   it('writes report.html atomically and says where', async () => {
     const { dir } = writeDemoFolder();
