@@ -41,7 +41,7 @@ function mib(bytes: number): string {
 
 /** The first line that is neither empty nor a `#` comment (among the first 1,000 lines). */
 function headerLine(text: string): string {
-  for (const line of text.slice(0, 1 << 16).split(/\r?\n/, 1000)) {
+  for (const line of text.slice(0, 1 << 16).split(/\r\n|\n|\r/, 1000)) {
     const s = line.trim();
     if (s !== '' && !s.startsWith('#')) return line;
   }
@@ -54,12 +54,15 @@ function headerLine(text: string): string {
  * line break once, moving forward only, so a whole file costs one pass.
  */
 function lineCounter(text: string): (cursor: number) => number {
+  // Lines end in LF or CR LF; a file with no LF at all ends its lines in CR (old Mac files).
+  const lineBreak = text.includes('\n') ? '\n' : '\r';
+  const code = lineBreak.charCodeAt(0);
   let breaks = 0; // line breaks in text[0, scanned)
   let scanned = 0;
   return (cursor) => {
     let end = cursor;
-    if (end > 0 && text.charCodeAt(end - 1) === 10) end--; // the record's own line break is not before it
-    for (let i = text.indexOf('\n', scanned); i !== -1 && i < end; i = text.indexOf('\n', i + 1)) breaks++;
+    if (end > 0 && text.charCodeAt(end - 1) === code) end--; // the record's own line break is not before it
+    for (let i = text.indexOf(lineBreak, scanned); i !== -1 && i < end; i = text.indexOf(lineBreak, i + 1)) breaks++;
     scanned = Math.max(scanned, end);
     return breaks + 1;
   };

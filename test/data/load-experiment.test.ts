@@ -182,6 +182,9 @@ describe('readCsv', () => {
     readCsv(file, 'lines.csv', { header: (h, line) => seen.push([h.join('|'), line]), row: (r, line) => seen.push([r.join('|'), line]) });
     // A record with a quoted line break is numbered by the line it ends on.
     expect(seen).toEqual([['t|note', 2], ['0|a', 3], ['1|two\r\nlines', 8], ['2|b', 9]]);
+    const cr = csvFile('cr.csv', '# old Mac line ends\rt,u\r0,1\r1,x\r');
+    const bad = userError(() => loadExperimentData(dataModel({ inputs: [{ name: 'u' }], experiment: { file: cr } }), 0));
+    expect(bad.problems[0].where.line).toBe(4);
     const open = csvFile('open.csv', 't,u\n0,1\n1,"2\n');
     const e = userError(() => readCsv(open, 'open.csv', { header: () => {}, row: () => {} }));
     expect(e.problems[0].where.line).toBe(3);
