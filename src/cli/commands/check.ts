@@ -3,14 +3,7 @@
  * (model file and all data files together, not only the first), then prints a summary of what the
  * model declares and what the logs hold.
  */
-import { isAbsolute, resolve } from 'node:path';
 import type { Command } from 'commander';
-import { UserError, type Problem } from '../../errors.js';
-import type { ExperimentData } from '../../data/types.js';
-import { loadExperimentData } from '../../data/load-experiment.js';
-import { compileModel } from '../../model/compile/index.js';
-import { loadModel } from '../../model/load/index.js';
-import { fitReadinessNotes, renderCheckSummary } from '../../reports/check-summary.js';
 import type { CommandContext } from '../io.js';
 
 export function register(program: Command, ctx: CommandContext): void {
@@ -26,41 +19,5 @@ export function register(program: Command, ctx: CommandContext): void {
       'Example:',
       '  rigcal check models/flywheel.yaml',
     ].join('\n'))
-    .action(ctx.action((modelArg: string) => runCheck(modelArg, ctx)));
-}
-
-export function runCheck(modelArg: string, ctx: CommandContext): number {
-  const { io } = ctx;
-  // Loading the model throws one UserError listing every problem of the model file; the data
-  // files can only be read against a loaded model, so they are checked once it loads.
-  const model = loadModel(pathFromCwd(modelArg, io.cwd));
-  const problems: Problem[] = [];
-  const collect = (err: unknown) => {
-    if (err instanceof UserError) problems.push(...err.problems);
-    else throw err;
-  };
-  try {
-    compileModel(model);
-  } catch (err) {
-    collect(err);
-  }
-  const data: (ExperimentData | undefined)[] = model.experiments.map((_, k) => {
-    try {
-      return loadExperimentData(model, k);
-    } catch (err) {
-      collect(err);
-      return undefined;
-    }
-  });
-  io.stdout(renderCheckSummary({ model, data }));
-  const notes = fitReadinessNotes(model, data);
-  if (notes.length) io.stdout(`\nnotes\n${notes.map((n) => `  - ${n}`).join('\n')}\n`);
-  if (problems.length) throw new UserError(problems);
-  io.stdout('\nno problems found\n');
-  return 0;
-}
-
-/** A path as the user typed it, made absolute against the command's working directory when that differs from the process's. */
-function pathFromCwd(path: string, cwd: string): string {
-  return isAbsolute(path) || resolve(cwd) === process.cwd() ? path : resolve(cwd, path);
+    .action(ctx.action(async (modelArg: string) => (await import('./check-run.js')).runCheck(modelArg, ctx))); // loaded when the command runs
 }

@@ -1,7 +1,7 @@
 /** The `freeze` command: hand calibrated parameters to a simulation team. */
 import { Option, type Command } from 'commander';
 import { UserError } from '../../errors.js';
-import { freezeModel, type FreezeFormat } from '../../handoff/freeze.js';
+import type { FreezeFormat } from '../../handoff/freeze.js';
 import type { CommandContext } from '../io.js';
 
 interface FreezeCliOptions {
@@ -33,10 +33,11 @@ Per-experiment parameters become fixed parameters whose fitted values are writte
 experiment's \`set\`; relative data paths are rewritten so that they stay valid from the output's folder.`,
     )
     .action(
-      ctx.action((model: string, opts: FreezeCliOptions) => {
+      ctx.action(async (model: string, opts: FreezeCliOptions) => {
         if (!opts.params || !opts.output) {
           throw new UserError({ where: {}, what: 'freeze needs --params and -o', fix: 'see rigcal freeze --help' });
         }
+        const { freezeModel } = await import('../../handoff/freeze.js'); // loaded when the command runs
         const outcome = freezeModel({
           modelFile: model,
           estimatesFile: opts.params,

@@ -1,8 +1,6 @@
 /** The `rank` command: fit candidate models of one rig on the same data and rank them. */
 import type { Command } from 'commander';
 import { UserError } from '../../errors.js';
-import { rankModels } from '../../comparison/rank-models.js';
-import { rankJson, rankText } from '../../comparison/rank-report.js';
 import type { CommandContext } from '../io.js';
 
 interface RankCliOptions {
@@ -36,7 +34,9 @@ The objective is -2 log L of Gaussian noise with each model's maximum-likelihood
 AICc and BIC count the free parameters plus the estimated noise levels.`,
     )
     .action(
-      ctx.action((files: string[], opts: RankCliOptions) => {
+      ctx.action(async (files: string[], opts: RankCliOptions) => {
+        // Loaded when the command runs: start-up (and every other command) does without them.
+        const [{ rankModels }, { rankJson, rankText }] = await Promise.all([import('../../comparison/rank-models.js'), import('../../comparison/rank-report.js')]);
         const starts = optionalInteger(opts.starts, '--starts', 1);
         const seed = optionalInteger(opts.seed, '--seed', 0);
         const maxIterations = optionalInteger(opts.maxIterations, '--max-iterations', 1);

@@ -1,10 +1,6 @@
 /** The `validate` command: score a calibrated model on data it was not fitted to. */
 import type { Command } from 'commander';
 import path from 'node:path';
-import { parseOverrides } from '../../model/load/index.js';
-import { defaultValidationFolder, validationText, writeValidationFolder } from '../../validation/validation-report.js';
-import { validateModel } from '../../validation/validate-model.js';
-import { renderValidationReport } from '../../validation/validation-html.js';
 import type { CommandContext } from '../io.js';
 
 interface ValidateCliOptions {
@@ -42,6 +38,13 @@ Example:
     )
     .action(
       ctx.action(async (modelFile: string, opts: ValidateCliOptions) => {
+        // Loaded when the command runs: start-up (and every other command) does without them.
+        const [{ parseOverrides }, { defaultValidationFolder, validationText, writeValidationFolder }, { validateModel }, { renderValidationReport }] = await Promise.all([
+          import('../../model/load/index.js'),
+          import('../../validation/validation-report.js'),
+          import('../../validation/validate-model.js'),
+          import('../../validation/validation-html.js'),
+        ]);
         const outcome = validateModel({
           modelFile,
           estimatesFile: opts.params,
