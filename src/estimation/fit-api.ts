@@ -12,7 +12,12 @@ export interface FitProgress {
 }
 
 export interface FitOptions {
-  /** Number of starts spread over the bounds (default 1: the model's start values only). */
+  /**
+   * Number of starts spread over the bounds. Default: the model's start values only, unless that fit
+   * ends with parameters on bounds and fit residuals that are not white (a likely local optimum):
+   * then 8 seeded starts spread over the bounds are run too and the better result is reported, with
+   * a warning that says so. Give 1 to keep to the model's start values whatever happens.
+   */
   starts?: number;
   seed?: number;
   maxIterations?: number;

@@ -95,7 +95,49 @@ interface SolveSummary {
   sigmaConverged: boolean;
 }
 
+/**
+ * Starts spread over the bounds when a fit from the model's own start looks stuck in a local optimum
+ * (parameters on bounds, fit residuals not white: see localOptimumHint), and the least gain in
+ * log-likelihood for which their best replaces it (a likelihood ratio of e). Common practice, no source.
+ */
+const RESCUE_STARTS = 8;
+const RESCUE_SEED = 1;
+const RESCUE_MIN_GAIN = 1;
+
+/**
+ * The fit. When the caller asked for no particular number of starts and the fit from the model's
+ * start looks stuck in a local optimum, RESCUE_STARTS seeded starts spread over the bounds are run
+ * as well and the better result is reported, saying so; the work of both counts.
+ */
 export function runFit(model: Model, compiled: CompiledModel, data: readonly ExperimentData[], options: FitOptions, deps: FitDeps): FitOutcome {
+  const first = fitOnce(model, compiled, data, options, deps);
+  if (options.starts !== undefined || first.localOptimum === undefined) return first.outcome;
+  const seed = options.seed ?? RESCUE_SEED;
+  const spread = fitOnce(model, compiled, data, { ...options, starts: RESCUE_STARTS, seed }, deps).outcome;
+  const a = first.outcome.result;
+  const b = spread.result;
+  const better = b.statistics.logLikelihood > a.statistics.logLikelihood + RESCUE_MIN_GAIN;
+  const chosen = better ? spread : first.outcome;
+  const r = chosen.result;
+  const logL = (x: number) => Number(x.toPrecision(8)).toString();
+  const said = better
+    ? `${first.localOptimum}; ${RESCUE_STARTS} starts spread over the bounds (seed ${seed}) found a better optimum (log-likelihood ${logL(b.statistics.logLikelihood)} against ${logL(a.statistics.logLikelihood)}), which is reported here`
+    : `${first.localOptimum}; ${RESCUE_STARTS} starts spread over the bounds (seed ${seed}) found no better one`;
+  r.warnings = [said, ...r.warnings.filter((w) => w !== first.localOptimumWarning)];
+  r.iterations = a.iterations + b.iterations;
+  r.simulations = a.simulations + b.simulations;
+  r.sensitivitySimulations = (a.sensitivitySimulations ?? 0) + (b.sensitivitySimulations ?? 0);
+  r.wallSeconds = a.wallSeconds + b.wallSeconds;
+  return chosen;
+}
+
+function fitOnce(
+  model: Model,
+  compiled: CompiledModel,
+  data: readonly ExperimentData[],
+  options: FitOptions,
+  deps: FitDeps,
+): { outcome: FitOutcome; localOptimum?: string; localOptimumWarning?: string } {
   const now = deps.now ?? (() => performance.now() / 1000);
   const t0 = now();
   const fitData = data.filter((d) => d.experiment.role === 'fit');
@@ -289,7 +331,7 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   const fitSims = problem.simulateAll(run.theta);
   fitData.forEach((d, i) => score(d, fitSims[i]));
   const hint = localOptimumHint(startsInfo !== undefined, parameters, outputs);
-  if (hint) warnings.push(hint);
+  if (hint) warnings.push(hint.warning);
   const perExperiment = model.parameters.filter((s) => s.kind === 'free' && s.perExperiment).map((s) => s.name);
   for (const d of validationData) {
     // A validation experiment has no copy of a per-experiment parameter: it keeps the start value.
@@ -340,7 +382,7 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   };
   if (summary.rounds > 1) result.message += `; noise levels settled after ${summary.rounds} fits`;
   result.wallSeconds = now() - t0;
-  return { result, residuals, values: valueByName };
+  return { outcome: { result, residuals, values: valueByName }, ...(hint ? { localOptimum: hint.finding, localOptimumWarning: hint.warning } : {}) };
 }
 
 /**
@@ -349,17 +391,17 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
  * "rigid" solution that a start on the wrong side of it slides into. Said in words, with the way to
  * look further; estimates on a bound with white residuals (a true value at the bound) say nothing.
  */
-function localOptimumHint(multistart: boolean, parameters: readonly ParameterResult[], outputs: readonly OutputResult[]): string | undefined {
+function localOptimumHint(multistart: boolean, parameters: readonly ParameterResult[], outputs: readonly OutputResult[]): { finding: string; warning: string } | undefined {
   if (multistart) return undefined;
   const onBound = parameters.filter((p) => p.atBound);
   const notWhite = outputs.filter((o) => o.role === 'fit' && o.whiteness && !o.whiteness.white);
   if (onBound.length === 0 || notWhite.length === 0) return undefined;
   const names = onBound.map((p) => `${p.name} (${p.atBound})`).join(', ');
   const series = notWhite.map((o) => `${o.output} in ${o.experiment}`).join(', ');
-  return (
-    `${names} ended on ${onBound.length === 1 ? 'its bound' : 'their bounds'} while the residuals of ${series} are not white: ` +
-    `the fit may have stopped in a local optimum rather than at the best fit; try several starts spread over the bounds (--starts 8)`
-  );
+  const finding =
+    `from the model's start values ${names} ended on ${onBound.length === 1 ? 'its bound' : 'their bounds'} while the residuals of ${series} ` +
+    `were not white: the fit may have stopped in a local optimum rather than at the best fit`;
+  return { finding, warning: `${finding}; try several starts spread over the bounds (--starts 8)` };
 }
 
 function startFailure(problem: EstimationProblem, run: SolverResult | undefined): RunFailure {
