@@ -122,7 +122,7 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   const logL = (x: number) => Number(x.toPrecision(8)).toString();
   const said = better
     ? `${first.localOptimum}; ${RESCUE_STARTS} starts spread over the bounds (seed ${seed}) found a better optimum (log-likelihood ${logL(b.statistics.logLikelihood)} against ${logL(a.statistics.logLikelihood)}), which is reported here`
-    : `${first.localOptimum}; ${RESCUE_STARTS} starts spread over the bounds (seed ${seed}) found no better one`;
+    : `${first.localOptimum}; ${RESCUE_STARTS} starts spread over the bounds (seed ${seed}) found no better one (--starts 1 skips this search)`;
   r.warnings = [said, ...r.warnings.filter((w) => w !== first.localOptimumWarning)];
   r.iterations = a.iterations + b.iterations;
   r.simulations = a.simulations + b.simulations;
