@@ -8,6 +8,7 @@ import { RunFailure } from '../../src/errors.js';
 import { runFit, type FitDeps, type UncertaintyInput } from '../../src/estimation/fit-core.js';
 import { solveLeastSquares } from '../../src/estimation/solver/index.js';
 import { runMultistart } from '../../src/estimation/multistart.js';
+import { residualDiagnostics } from '../../src/diagnostics/residual-diagnostics.js';
 import type { ParameterSpec } from '../../src/model/types.js';
 import { decayCompiled, decayData, decayModel, decaySimulator } from './helpers/decay-rig.js';
 import { normalGenerator } from './helpers/rng.js';
@@ -48,6 +49,22 @@ function rig(sigma?: number, p = params()) {
 }
 
 describe('fit pipeline (runFit)', () => {
+  it('a fit stuck on a bound with non-white residuals also runs 8 starts over the bounds, and says when none is better', () => {
+    // k's upper bound (0.5) lies below the truth (0.8): every start ends on it, and the misfit leaves
+    // the residuals far from white.
+    const { model, compiled, data } = rig(undefined, params({ k: { max: 0.5, start: 0.3 } }));
+    const d: FitDeps = { ...deps(), diagnostics: (series, inputs, timeUnit) => residualDiagnostics(series, inputs, { timeUnit }) };
+    const searched = runFit(model, compiled, data, {}, d).result;
+    expect(searched.warnings[0]).toMatch(/^from the model's start values k \(upper\) ended on its bound .* 8 starts spread over the bounds \(seed 1\) found no better one \(--starts 1 skips this search\)$/);
+    expect(searched.starts).toBeUndefined(); // the fit from the model's start is the one reported
+    const single = runFit(model, compiled, data, { starts: 1 }, d).result;
+    expect(single.warnings.join('\n')).toMatch(/may have stopped in a local optimum rather than at the best fit; try several starts spread over the bounds \(--starts 8\)/);
+    expect(single.warnings.join('\n')).not.toMatch(/found no better/);
+    // The work of both runs counts.
+    expect(searched.iterations).toBeGreaterThan(single.iterations);
+    expect(searched.simulations).toBeGreaterThan(single.simulations);
+  });
+
   it('estimates shared and per-experiment parameters, iterates the noise level, scores validation', () => {
     const { model, compiled, data } = rig();
     const rec: UncertaintyInput[] = [];
