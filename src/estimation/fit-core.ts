@@ -113,7 +113,14 @@ export function runFit(model: Model, compiled: CompiledModel, data: readonly Exp
   const first = fitOnce(model, compiled, data, options, deps);
   if (options.starts !== undefined || first.localOptimum === undefined) return first.outcome;
   const seed = options.seed ?? RESCUE_SEED;
-  const spread = fitOnce(model, compiled, data, { ...options, starts: RESCUE_STARTS, seed }, deps).outcome;
+  let spread: FitOutcome;
+  try {
+    spread = fitOnce(model, compiled, data, { ...options, starts: RESCUE_STARTS, seed }, deps).outcome;
+  } catch (err) {
+    // Every spread start failed to simulate: the fit from the model's start stands, with its warning.
+    if (err instanceof RunFailure) return first.outcome;
+    throw err;
+  }
   const a = first.outcome.result;
   const b = spread.result;
   const better = b.statistics.logLikelihood > a.statistics.logLikelihood + RESCUE_MIN_GAIN;
