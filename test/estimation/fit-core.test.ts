@@ -63,6 +63,17 @@ describe('fit pipeline (runFit)', () => {
     // The work of both runs counts.
     expect(searched.iterations).toBeGreaterThan(single.iterations);
     expect(searched.simulations).toBeGreaterThan(single.simulations);
+    // When none of the spread starts can be simulated, the finished fit stands (no failure).
+    const failing: FitDeps = {
+      ...d,
+      multistart: (_entries, _opts, solve) => {
+        const bad = { ...solve([0, 0, 0], 0), status: 'failed' as const, cost: Number.NaN };
+        return { results: [bad], best: bad, bestIndex: 0, points: [[0, 0, 0]], distinctOptima: 0, bestCosts: [] };
+      },
+    };
+    const kept = runFit(model, compiled, data, {}, failing).result;
+    expect(kept.status).not.toBe('failed');
+    expect(kept.warnings.join('\n')).toMatch(/try several starts spread over the bounds \(--starts 8\)/);
   });
 
   it('estimates shared and per-experiment parameters, iterates the noise level, scores validation', () => {
