@@ -1,5 +1,4 @@
 /** What `rigcal check` does (its options and help: check.ts). */
-import { isAbsolute, resolve } from 'node:path';
 import { UserError, type Problem } from '../../errors.js';
 import type { ExperimentData } from '../../data/types.js';
 import { loadExperimentData } from '../../data/load-experiment.js';
@@ -7,6 +6,7 @@ import { compileModel } from '../../model/compile/index.js';
 import { loadModel } from '../../model/load/index.js';
 import { fitReadinessNotes, renderCheckSummary } from '../../reports/check-summary.js';
 import type { CommandContext } from '../io.js';
+import { pathFromCwd } from '../paths.js';
 
 export function runCheck(modelArg: string, ctx: CommandContext): number {
   const { io } = ctx;
@@ -39,7 +39,3 @@ export function runCheck(modelArg: string, ctx: CommandContext): number {
   return 0;
 }
 
-/** A path as the user typed it, made absolute against the command's working directory when that differs from the process's. */
-function pathFromCwd(path: string, cwd: string): string {
-  return isAbsolute(path) || resolve(cwd) === process.cwd() ? path : resolve(cwd, path);
-}

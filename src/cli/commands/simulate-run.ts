@@ -16,11 +16,9 @@ import { parameterVector, splitParameterKey } from '../../simulation/parameters.
 import { simulateExperiment, simulateSpan } from '../../simulation/index.js';
 import { writeFileAtomic } from '../../util/atomic-write.js';
 import type { CommandContext } from '../io.js';
+import { pathFromCwd } from '../paths.js';
 import type { SimulateOptions } from './simulate.js';
 
-function pathFromCwd(path: string, cwd: string): string {
-  return isAbsolute(path) || resolve(cwd) === process.cwd() ? path : resolve(cwd, path);
-}
 
 /** Canonical path for comparisons (follows links; for a file that does not exist yet, its folder). */
 function canonical(path: string): string {
