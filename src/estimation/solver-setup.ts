@@ -53,11 +53,15 @@ export function solverSetup(problem: EstimationProblem): { lsq: LeastSquaresProb
   // of samples) keep the defaults: their simulations are cheap and their published digits need them.
   const dof = problem.nResiduals - problem.entries.length;
   const relaxed = ode && dof >= ODE_RELAXED_FROM_DOF;
-  const costTolerance = Math.max(SOLVER_DEFAULTS.costTolerance, Math.min(ODE_COST_TOLERANCE_CAP, ODE_STEP_IN_STANDARD_ERRORS ** 2 / dof));
+  const relaxedStops = () => ({
+    costTolerance: Math.max(SOLVER_DEFAULTS.costTolerance, Math.min(ODE_COST_TOLERANCE_CAP, ODE_STEP_IN_STANDARD_ERRORS ** 2 / dof)),
+    noisyCost: true,
+    costNoiseLimit: ODE_NOISE_STEP_IN_STANDARD_ERRORS ** 2 / dof,
+  });
   return {
     lsq,
     settings: {
-      ...(relaxed ? { costTolerance, noisyCost: true, costNoiseLimit: ODE_NOISE_STEP_IN_STANDARD_ERRORS ** 2 / dof } : {}),
+      ...(relaxed ? relaxedStops() : {}),
       // A simulation with sensitivities costs two to three plain ones: far from the optimum, a
       // trial the linear model vouches for is simulated with them straight away (solver/types.ts).
       ...(ode ? { speculativeJacobian: true } : {}),

@@ -294,8 +294,7 @@ export function solveLeastSquares(problem: LeastSquaresProblem, start: ArrayLike
         }
         return { prered: 1 - (norm2(lin) / fnorm) ** 2, dirder: rja / (fnorm * fnorm) };
       };
-      const { prered: predicted, dirder } = predict();
-      let prered = predicted;
+      let { prered, dirder } = predict();
 
       // After a rejected trial the shrunk region may still hold the same Gauss-Newton step: the
       // evaluation is deterministic, so the same point is not evaluated twice.

@@ -30,11 +30,6 @@ export class RowMajorMatrix {
   clone(): RowMajorMatrix {
     return new RowMajorMatrix(this.rows, this.columns, this.data.slice());
   }
-
-  /** An ml-matrix copy, for callers that want one (small matrices only: it allocates a row each). */
-  toMatrix(): Matrix {
-    return Matrix.from1DArray(this.rows, this.columns, this.data);
-  }
 }
 
 /** The forms a caller may hand over a Jacobian in. */

@@ -3,8 +3,8 @@
  *
  * [J r] is reduced block by block: the triangle found so far is stacked on the next block of rows
  * and the stack is factorised again by ml-matrix's Householder QR. The product of those orthogonal
- * factors is one orthogonal Q with [J r] = Q [R qtr; 0 rho], so R is J's triangular factor, qtr is
- * Q^T r restricted to J's columns, and |rho| is the part of r no step can remove. Householder
+ * factors is one orthogonal Q with [J r] = Q [R qtr; 0 rho], so R is J's triangular factor and qtr
+ * is Q^T r restricted to J's columns. Householder
  * reflections block by block are as stable as one reflection sweep over all rows (the sequential
  * form of tall-skinny QR).
  *
@@ -37,8 +37,6 @@ export interface TriangularFactor {
   R: Matrix;
   /** Q^T r for those columns (length p); zeros when no r was given. */
   qtr: Float64Array;
-  /** |rho|: the norm of the part of r outside J's column space (0 when no r was given). */
-  residualOutside: number;
 }
 
 /**
@@ -71,5 +69,5 @@ export function triangularFactor(j: RowMajorMatrix, cols?: readonly number[], r?
     for (let k = i; k < p; k++) R.set(i, k, top!.get(i, k));
     if (r) qtr[i] = top!.get(i, p);
   }
-  return { R, qtr, residualOutside: r ? Math.abs(top!.get(p, p)) : 0 };
+  return { R, qtr };
 }

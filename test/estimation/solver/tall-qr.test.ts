@@ -1,7 +1,7 @@
 /**
  * The block-by-block triangular factor against the definition of a QR factorisation: for
  * [J r] = Q [R qtr; 0 rho] with Q orthogonal, R^T R = J^T J, R^T qtr = J^T r and
- * |qtr|^2 + rho^2 = |r|^2 (textbook identities, e.g. Golub and Van Loan, Matrix Computations,
+ * |qtr|^2 <= |r|^2, with equality when r lies in J's column space (textbook identities, e.g. Golub and Van Loan, Matrix Computations,
  * ch. 5). Also against ml-matrix's single QR of the whole matrix (|R| agrees row by row up to sign).
  */
 import { Matrix, QrDecomposition } from 'ml-matrix';
@@ -28,10 +28,10 @@ function rtr(R: Matrix, a: number, b: number): number {
 describe('triangularFactor', () => {
   // 1,537 rows: three full blocks and a partial one; 3 rows: fewer rows than columns + 1.
   for (const rows of [1537, 512, 40, 3]) {
-    it(`satisfies R^T R = J^T J, R^T qtr = J^T r and |qtr|^2 + rho^2 = |r|^2 (${rows} rows)`, () => {
+    it(`satisfies R^T R = J^T J, R^T qtr = J^T r and |qtr| <= |r| (${rows} rows)`, () => {
       const cols = 4;
       const { j, r } = randomTall(rows, cols, 7 + rows);
-      const { R, qtr, residualOutside } = triangularFactor(j, undefined, r);
+      const { R, qtr } = triangularFactor(j, undefined, r);
       expect(R.rows).toBe(cols);
       for (let a = 0; a < cols; a++) {
         for (let i = a + 1; i < cols; i++) expect(R.get(i, a)).toBe(0);
@@ -49,8 +49,9 @@ describe('triangularFactor', () => {
       }
       const rr = r.reduce((s, v) => s + v * v, 0);
       const qq = qtr.reduce((s, v) => s + v * v, 0);
-      expect(qq + residualOutside ** 2).toBeCloseTo(rr, 10);
-      if (rows <= cols) expect(residualOutside).toBeLessThan(1e-12); // r lies in the span: nothing left
+      expect(qq).toBeLessThanOrEqual(rr * (1 + 1e-12));
+      if (rows <= cols) expect(qq).toBeCloseTo(rr, 12); // r lies in the span: Q^T r keeps all of it
+      else expect(qq).toBeLessThan(0.5 * rr); // random r, 4 of many directions: most of it is outside
     });
   }
 
