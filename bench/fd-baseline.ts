@@ -12,7 +12,7 @@ import { levenbergMarquardt } from 'ml-levenberg-marquardt';
 import type { CompiledModel } from '../src/model/compiled-types.js';
 import type { ExperimentData } from '../src/data/types.js';
 import type { Model } from '../src/model/types.js';
-import { defaultFitDeps } from '../src/estimation/fit.js';
+import { realCollaborators } from '../src/estimation/fit/collaborators.js';
 import { initialNoise } from '../src/estimation/noise.js';
 import { buildProblem, type EstimationProblem } from '../src/estimation/problem.js';
 import { solveLeastSquares } from '../src/estimation/solver/index.js';
@@ -45,7 +45,7 @@ export interface SolveCount {
 
 function fitProblem(model: Model, compiled: CompiledModel, data: readonly ExperimentData[]): EstimationProblem {
   const fitData = data.filter((d) => d.experiment.role === 'fit');
-  return buildProblem(compiled, fitData, initialNoise(model, fitData).sigmas, defaultFitDeps().sim);
+  return buildProblem(compiled, fitData, initialNoise(model, fitData).sigmas, realCollaborators().sim);
 }
 
 /** rigcal's solver as the fit sets it up (solverSetup), on the first weighting (no noise refits), from the model's start. */

@@ -27,9 +27,12 @@ export { loadExperimentData } from './data/index.js';
 export { parameterVector, simulateExperiment, simulateSpan } from './simulation/index.js';
 
 // Estimation.
-export type * from './estimation/fit-result.js';
-export type * from './estimation/fit-api.js';
-export { fitModel, loadAllData } from './estimation/fit.js';
+export type * from './estimation/fit/fit-result.js';
+export type * from './estimation/fit/fit-options.js';
+export type * from './diagnostics/types.js';
+export { fitModel, fitLoaded, loadAllData } from './estimation/fit/fit-model.js';
+export { realCollaborators } from './estimation/fit/collaborators.js';
+export type { FitCollaborators } from './estimation/fit/collaborators.js';
 export { solveLeastSquares, SOLVER_DEFAULTS } from './estimation/solver/index.js';
 export { computeUncertainty } from './estimation/uncertainty.js';
 export { analyseIdentifiability } from './estimation/identifiability.js';

@@ -11,8 +11,9 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { compileModel } from '../../src/model/compile/index.js';
 import { loadModel } from '../../src/model/load/index.js';
-import { defaultFitDeps, loadAllData } from '../../src/estimation/fit.js';
-import { runFit } from '../../src/estimation/fit-core.js';
+import { realCollaborators } from '../../src/estimation/fit/collaborators.js';
+import { loadAllData } from '../../src/estimation/fit/fit-model.js';
+import { fitLoaded } from '../../src/estimation/fit/fit-model.js';
 import type { BenchCase } from '../case.js';
 import { BASELINE_COST_MARGIN, BASELINE_MAX_ITERATIONS, baselineSolve, ourSolve } from '../fd-baseline.js';
 
@@ -32,7 +33,7 @@ function fitCase(modelPath: string, label: string, runs = 3): BenchCase {
     setup() {
       const { model, compiled, data } = prepare(modelPath);
       return () => {
-        const { result } = runFit(model, compiled, data, {}, defaultFitDeps());
+        const { result } = fitLoaded(model, compiled, data, {}, realCollaborators());
         return { note: `${result.status}, ${result.iterations} iterations, ${result.simulations} plain + ${result.sensitivitySimulations} sensitivity simulations` };
       };
     },

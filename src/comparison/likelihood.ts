@@ -11,7 +11,7 @@
  *
  * The formulas themselves live in src/estimation/information-criteria.ts (with their sources).
  */
-import type { ResidualSeries } from '../estimation/fit-api.js';
+import type { ResidualSeries } from '../diagnostics/types.js';
 import { aicc, bic, gaussianLogLikelihood, type LikelihoodTerm } from '../estimation/information-criteria.js';
 
 export interface OutputNoise {

@@ -7,7 +7,7 @@
  * where the noise is estimated (likelihood.ts). Weighted SSE is not used because, with estimated
  * noise, each model weights by its own sigmas and the sums would not be comparable.
  */
-import type { FitOutcome } from '../estimation/fit-api.js';
+import type { CompletedFit } from '../estimation/fit/fit-result.js';
 import { akaikeWeights, likelihoodRatioTest } from '../estimation/information-criteria.js';
 import type { Model } from '../model/types.js';
 import { residualDiagnostics, scoreSeries } from '../diagnostics/index.js';
@@ -18,7 +18,7 @@ export interface CandidateFit {
   name: string;
   file: string;
   model: Model;
-  outcome: FitOutcome;
+  outcome: CompletedFit;
 }
 
 export interface ValidationScore {

@@ -4,8 +4,9 @@
  */
 import path from 'node:path';
 import { RunFailure } from '../errors.js';
-import type { FitOptions, FitOutcome } from '../estimation/fit-api.js';
-import { fitModel } from '../estimation/fit.js';
+import type { FitOptions } from '../estimation/fit/fit-options.js';
+import type { CompletedFit } from '../estimation/fit/fit-result.js';
+import { fitModel } from '../estimation/fit/fit-model.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
 import { rankFits, type CandidateFit, type RankResult } from './rank-fits.js';
@@ -37,7 +38,7 @@ export function rankModels(files: readonly string[], options: RankOptions = {}):
   const failures: RankOutcome['failures'] = [];
   models.forEach((model, i) => {
     options.onModel?.(names[i], i, models.length);
-    let outcome: FitOutcome;
+    let outcome: CompletedFit;
     try {
       outcome = fitModel(model, { starts: options.starts, seed: options.seed, maxIterations: options.maxIterations, onProgress: options.onProgress });
     } catch (err) {

@@ -7,8 +7,7 @@
  * Missing samples (NaN in measured or simulated) are handled as described in correlation.ts.
  */
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
-import type { ResidualSeries } from '../estimation/fit-api.js';
-import type { OutputResult, WhitenessResult } from '../estimation/fit-result.js';
+import type { InputCorrelation, ResidualAutocorrelation, ResidualSeries, WhitenessResult } from './types.js';
 import { autocorrelation, crossCorrelation } from './correlation.js';
 import { displayLags, MIN_SAMPLES_FOR_TESTS, testLags } from './lag-rule.js';
 import { ljungBox } from './ljung-box.js';
@@ -33,9 +32,9 @@ export interface ResidualDiagnostics {
   /** Samples with a residual (both measured and simulated present). */
   samples: number;
   whiteness?: WhitenessResult;
-  autocorrelation?: NonNullable<OutputResult['autocorrelation']>;
+  autocorrelation?: ResidualAutocorrelation;
   /** Per input: largest |cross-correlation|, its lag in the model's time unit, the 95 % band half-width. */
-  inputCorrelation?: NonNullable<OutputResult['inputCorrelation']>;
+  inputCorrelation?: InputCorrelation[];
   /** Inputs whose cross-correlation with the residuals is significant. */
   inputsFollowed: string[];
   /** Lag (model's time unit, or samples without a time vector) up to which residuals stay correlated. */
@@ -100,7 +99,7 @@ export function residualDiagnostics(series: ResidualSeries, inputs: InputSignal[
     }
   }
 
-  const inputCorrelation: NonNullable<OutputResult['inputCorrelation']> = [];
+  const inputCorrelation: InputCorrelation[] = [];
   const inputsFollowed: string[] = [];
   const followedWords: string[] = [];
   for (const input of inputs) {

@@ -17,7 +17,7 @@
  * Pairs of determined parameters with |correlation| > 0.95 are flagged with a sentence (common
  * practice, no source: a correlation that close to 1 means the data hardly separate the two).
  */
-import type { IdentifiabilityProblem } from './fit-result.js';
+import type { IdentifiabilityProblem } from './fit/fit-result.js';
 import { toRowMajor } from './solver/row-major.js';
 import { meaningfulChanges, NULL_COMPONENT, scaledSvd, SINGULAR_THRESHOLD } from './solver/scaled-svd.js';
 import type { JacobianInput } from './solver/types.js';

@@ -4,7 +4,7 @@
  * very same doubles (a frozen model reproduces the fit exactly).
  */
 import { Document, isMap, isPair, isSeq } from 'yaml';
-import type { FitResult, ParameterResult } from '../estimation/fit-result.js';
+import type { FitResult, ParameterResult } from '../estimation/fit/fit-result.js';
 
 const CAUTIONS = [
   ' Calibrated parameters written by rigcal.',

@@ -3,7 +3,7 @@
  * (measured - simulated), time in the model's time unit, values in the output's unit. Empty cells
  * where a sample is missing or the output is not logged in that experiment.
  */
-import type { ResidualSeries } from '../estimation/fit-api.js';
+import type { ResidualSeries } from '../diagnostics/types.js';
 
 function num(x: number): string {
   return Number.isFinite(x) ? String(x) : '';

@@ -2,7 +2,7 @@
  * The text summary `fit` prints: the parameter table, fit quality per output, warnings in words and
  * the results folder. Plain text, fixed-width columns, every number with its unit.
  */
-import type { FitResult, ParameterResult } from '../estimation/fit-result.js';
+import type { FitResult, ParameterResult } from '../estimation/fit/fit-result.js';
 
 /**
  * Rounded for reading (the full values are in the results folder): estimates and intervals with six

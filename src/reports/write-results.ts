@@ -6,7 +6,7 @@
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
-import type { FitOutcome } from '../estimation/fit-api.js';
+import type { CompletedFit } from '../estimation/fit/fit-result.js';
 import { writeFolderAtomic, type FolderEntry } from '../util/atomic-write.js';
 import { renderEstimatesYaml } from './estimates-yaml.js';
 import { renderFitJson } from './fit-json.js';
@@ -15,7 +15,7 @@ import { renderResidualsCsv } from './residuals-csv.js';
 /** Files a results folder of ours may hold; anything else means the folder is someone else's. */
 export const RESULT_FILES = ['estimates.yaml', 'fit.json', 'residuals.csv', 'report.html'] as const;
 
-export type HtmlRenderer = (outcome: FitOutcome) => string | Promise<string>;
+export type HtmlRenderer = (outcome: CompletedFit) => string | Promise<string>;
 
 /**
  * report.html from the in-memory results, by the report renderer. Loaded on first use: the renderer
@@ -73,7 +73,7 @@ export function assertReplaceable(folder: string): void {
 }
 
 /** Write the results folder; returns its absolute path. */
-export async function writeResults(folder: string, outcome: FitOutcome, options: WriteResultsOptions): Promise<string> {
+export async function writeResults(folder: string, outcome: CompletedFit, options: WriteResultsOptions): Promise<string> {
   const target = resolve(folder);
   assertReplaceable(target);
   const files: Record<string, FolderEntry> = {

@@ -6,7 +6,7 @@
 import path from 'node:path';
 import { UserError, type Problem } from '../errors.js';
 import { residualDiagnostics, scoreSeries } from '../diagnostics/index.js';
-import type { ResidualSeries } from '../estimation/fit-api.js';
+import type { ResidualSeries } from '../diagnostics/types.js';
 import { loadExperimentData } from '../data/load-experiment.js';
 import { nearestNames } from '../data/nearest.js';
 import { compileModel } from '../model/compile/index.js';

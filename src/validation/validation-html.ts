@@ -5,8 +5,8 @@
  * with the verdict.
  */
 import { residualDiagnostics, residualOf } from '../diagnostics/index.js';
-import type { ResidualSeries } from '../estimation/fit-api.js';
-import type { FitResult, OutputResult } from '../estimation/fit-result.js';
+import type { ResidualSeries } from '../diagnostics/types.js';
+import type { FitResult, OutputResult } from '../estimation/fit/fit-result.js';
 import { html } from '../reports/html/escape-html.js';
 import { experimentsSection } from '../reports/html/experiments-section.js';
 import { formatNumber, withUnit } from '../reports/html/format-number.js';

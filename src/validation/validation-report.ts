@@ -7,7 +7,7 @@
 import { existsSync, readFileSync, readdirSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { UserError } from '../errors.js';
-import type { ResidualSeries } from '../estimation/fit-api.js';
+import type { ResidualSeries } from '../diagnostics/types.js';
 import { renderResidualsCsv } from '../reports/residuals-csv.js';
 import { formatNumber } from '../reports/summary-table.js';
 import { writeFolderAtomic, type FolderEntry } from '../util/atomic-write.js';

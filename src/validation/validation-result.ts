@@ -2,7 +2,7 @@
  * The result of `validate`: a plain object, written as validation.json into the output folder and
  * rendered as a table by the CLI.
  */
-import type { WhitenessResult } from '../estimation/fit-result.js';
+import type { WhitenessResult } from '../diagnostics/types.js';
 
 export interface ValidationOutputScore {
   experiment: string;

@@ -4,8 +4,9 @@
  * likelihood-ratio p-values against closed forms and table values of the chi-square distribution.
  */
 import { describe, expect, it } from 'vitest';
-import type { FitOutcome, ResidualSeries } from '../../src/estimation/fit-api.js';
-import type { FitResult } from '../../src/estimation/fit-result.js';
+import type { CompletedFit } from '../../src/estimation/fit/fit-result.js';
+import type { ResidualSeries } from '../../src/diagnostics/types.js';
+import type { FitResult } from '../../src/estimation/fit/fit-result.js';
 import type { Model } from '../../src/model/types.js';
 import { fitLikelihood } from '../../src/comparison/likelihood.js';
 import { rankFits, type CandidateFit } from '../../src/comparison/rank-fits.js';
@@ -24,7 +25,7 @@ function series(n: number, a: number, role: 'fit' | 'validation' = 'fit', output
 function candidate(name: string, freeParameters: number, residuals: ResidualSeries[], sigma?: number): CandidateFit {
   const model = { name, timeUnit: 's', outputs: [{ name: 'y', unit: 'm', sigma }], inputs: [] } as unknown as Model;
   const result = { status: 'converged', statistics: { freeParameters } } as unknown as FitResult;
-  return { name, file: `${name}.yaml`, model, outcome: { result, residuals, values: {} } as FitOutcome };
+  return { name, file: `${name}.yaml`, model, outcome: { result, residuals, values: {} } as CompletedFit };
 }
 
 describe('fitLikelihood', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { ResidualSeries } from '../../src/estimation/fit-api.js';
+import type { ResidualSeries } from '../../src/diagnostics/types.js';
 import { residualDiagnostics } from '../../src/diagnostics/index.js';
 import { normalNoise } from './random.js';
 

@@ -5,8 +5,9 @@
  * accepted band (about +-2 sd).
  */
 import { describe, expect, it } from 'vitest';
-import { defaultFitDeps, loadAllData } from '../../src/estimation/fit.js';
-import { runFit } from '../../src/estimation/fit-core.js';
+import { realCollaborators } from '../../src/estimation/fit/collaborators.js';
+import { loadAllData } from '../../src/estimation/fit/fit-model.js';
+import { fitLoaded } from '../../src/estimation/fit/fit-model.js';
 import { compileModel } from '../../src/model/compile/index.js';
 import { loadModel } from '../../src/model/load/index.js';
 import { normalGenerator } from './helpers/rng.js';
@@ -17,7 +18,7 @@ describe('coverage of the 95 % intervals', () => {
     const model = loadModel(writeSaturationRig(tempDir()));
     const compiled = compileModel(model);
     const data = loadAllData(model);
-    const deps = { ...defaultFitDeps(), diagnostics: undefined };
+    const deps = { ...realCollaborators(), diagnostics: undefined };
     const noise = normalGenerator(20260101);
     const { a, b, sigma } = SATURATION_TRUTH;
     const hits = { a: 0, b: 0 };
@@ -27,7 +28,7 @@ describe('coverage of the 95 % intervals', () => {
     for (let k = 0; k < trials; k++) {
       const y = Float64Array.from(SATURATION_X, (x) => a * (1 - Math.exp(-b * x)) + sigma * noise());
       const d = [{ ...data[0], outputs: [y] }];
-      const out = runFit(model, compiled, d, {}, deps);
+      const out = fitLoaded(model, compiled, d, {}, deps);
       iterations += out.result.iterations;
       for (const name of ['a', 'b'] as const) {
         const p = out.result.parameters.find((q) => q.name === name)!;

@@ -4,7 +4,7 @@
  * determines a ratio must say so.
  */
 import { describe, expect, it } from 'vitest';
-import { fitModel } from '../../src/estimation/fit.js';
+import { fitModel } from '../../src/estimation/fit/fit-model.js';
 import { loadModel } from '../../src/model/load/index.js';
 import { THERMAL_TRUTH, tempDir, writeSpringRig, writeThermalRig } from './helpers/rigs.js';
 

@@ -10,7 +10,7 @@ import { readFileSync, readdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { fitModel } from '../../src/estimation/fit.js';
+import { fitModel } from '../../src/estimation/fit/fit-model.js';
 import { loadModel } from '../../src/model/load/index.js';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', 'fixtures', 'nist');

@@ -82,7 +82,7 @@ describe('estimation problem on a compiled ODE model with the real simulator', (
   it('sensitivity Jacobian matches finite differences (log-scaled C and R, per-experiment T0)', async () => {
     const { loadModel } = await import('../../src/model/load/index.js');
     const { compileModel } = await import('../../src/model/compile/index.js');
-    const { loadAllData } = await import('../../src/estimation/fit.js');
+    const { loadAllData } = await import('../../src/estimation/fit/fit-model.js');
     const { parameterVector, simulateExperiment } = await import('../../src/simulation/index.js');
     const { tempDir, writeThermalRig } = await import('./helpers/rigs.js');
     const model = loadModel(writeThermalRig(tempDir()));

@@ -10,7 +10,7 @@ import { parse as parseCsv } from 'csv-parse/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/run.js';
 import { loadExperimentData } from '../../src/data/index.js';
-import { fitModel } from '../../src/estimation/fit.js';
+import { fitModel } from '../../src/estimation/fit/fit-model.js';
 import { freezeModel } from '../../src/handoff/freeze.js';
 import { compileModel } from '../../src/model/compile/index.js';
 import { loadModel } from '../../src/model/load/index.js';

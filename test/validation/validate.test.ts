@@ -9,7 +9,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/run.js';
-import { fitModel } from '../../src/estimation/fit.js';
+import { fitModel } from '../../src/estimation/fit/fit-model.js';
 import { loadModel } from '../../src/model/load/index.js';
 import { writeResults } from '../../src/reports/write-results.js';
 import type { ValidationResult } from '../../src/validation/validation-result.js';

@@ -7,7 +7,7 @@
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { UserError } from '../../errors.js';
-import type { FitProgress } from '../../estimation/fit-api.js';
+import type { FitProgress } from '../../estimation/fit/fit-options.js';
 import type { CommandContext } from '../io.js';
 
 interface FitCliOptions {
@@ -56,7 +56,7 @@ export function register(program: Command, ctx: CommandContext): void {
         // The pipeline and its writers load when the command runs, not when the CLI starts (every
         // command registers at start-up; `rigcal --help` or another command need none of this).
         const [{ fitModel }, { loadModel, parseOverrides }, { renderFitJson }, { renderFitSummary }, { defaultResultsFolder, assertReplaceable, reportRenderer, writeResults }] = await Promise.all([
-          import('../../estimation/fit.js'),
+          import('../../estimation/fit/fit-model.js'),
           import('../../model/load/index.js'),
           import('../../reports/fit-json.js'),
           import('../../reports/summary-table.js'),

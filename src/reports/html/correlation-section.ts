@@ -1,5 +1,5 @@
 /** The correlation matrix of the estimates as a heat map. */
-import type { FitResult } from '../../estimation/fit-result.js';
+import type { FitResult } from '../../estimation/fit/fit-result.js';
 import { html, raw, type Html } from './escape-html.js';
 import { correlationSpec } from './plots.js';
 import { renderVegaLiteSvg } from './vega-svg.js';

@@ -4,8 +4,8 @@
  * small unmodelled ripple), with seeded noise. Invented data, for demonstration only: it is not a
  * fit, only the shape of one.
  */
-import type { ResidualSeries } from '../../estimation/fit-api.js';
-import type { FitResult, OutputResult } from '../../estimation/fit-result.js';
+import type { ResidualSeries } from '../../diagnostics/types.js';
+import type { FitResult, OutputResult } from '../../estimation/fit/fit-result.js';
 import { residualDiagnostics } from '../../diagnostics/residual-diagnostics.js';
 import { scoreSeries } from '../../diagnostics/scores.js';
 

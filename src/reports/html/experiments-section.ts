@@ -3,7 +3,7 @@
  * autocorrelation with its 95 % band, the scores and the verdict. Fit and validation experiments
  * are rendered into separate sections.
  */
-import type { FitResult } from '../../estimation/fit-result.js';
+import type { FitResult } from '../../estimation/fit/fit-result.js';
 import { html, raw, type Html } from './escape-html.js';
 import { formatNumber, withUnit } from './format-number.js';
 import type { ShownOutput } from './output-diagnostics.js';

@@ -1,5 +1,5 @@
 /** Top of the report: model, status, message, date; the cautions; a table of contents. */
-import type { FitResult } from '../../estimation/fit-result.js';
+import type { FitResult } from '../../estimation/fit/fit-result.js';
 import { html, type Html } from './escape-html.js';
 
 export function headerSection(fit: FitResult, hasValidation: boolean): Html {

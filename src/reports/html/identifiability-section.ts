@@ -1,5 +1,5 @@
 /** Identifiability problems and warnings, in words. */
-import type { FitResult } from '../../estimation/fit-result.js';
+import type { FitResult } from '../../estimation/fit/fit-result.js';
 import { html, type Html } from './escape-html.js';
 import { formatNumber } from './format-number.js';
 

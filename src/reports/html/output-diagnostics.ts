@@ -2,8 +2,8 @@
  * The numbers shown for one output of one experiment: taken from fit.json where `fit` wrote them,
  * computed here from the residual series where it did not (an older or partial fit.json).
  */
-import type { ResidualSeries } from '../../estimation/fit-api.js';
-import type { FitResult, OutputResult } from '../../estimation/fit-result.js';
+import type { ResidualSeries } from '../../diagnostics/types.js';
+import type { FitResult, OutputResult } from '../../estimation/fit/fit-result.js';
 import { residualDiagnostics } from '../../diagnostics/residual-diagnostics.js';
 import { residualOf, scoreSeries } from '../../diagnostics/scores.js';
 

@@ -1,5 +1,5 @@
 /** The parameter table and the overall statistics. */
-import type { FitResult, ParameterResult } from '../../estimation/fit-result.js';
+import type { FitResult, ParameterResult } from '../../estimation/fit/fit-result.js';
 import { html, type Html } from './escape-html.js';
 import { formatEstimate, formatNumber } from './format-number.js';
 

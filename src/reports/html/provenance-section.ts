@@ -1,5 +1,5 @@
 /** Where the results came from: files with their SHA-256, tool version, date, overrides. */
-import type { FitResult } from '../../estimation/fit-result.js';
+import type { FitResult } from '../../estimation/fit/fit-result.js';
 import { html, type Html } from './escape-html.js';
 import { formatNumber } from './format-number.js';
 

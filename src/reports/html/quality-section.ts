@@ -1,5 +1,5 @@
 /** One table: fit quality and whiteness of every output in every experiment. */
-import type { FitResult } from '../../estimation/fit-result.js';
+import type { FitResult } from '../../estimation/fit/fit-result.js';
 import { html, type Html } from './escape-html.js';
 import { formatNumber, withUnit } from './format-number.js';
 import type { ShownOutput } from './output-diagnostics.js';

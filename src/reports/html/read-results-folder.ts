@@ -7,8 +7,8 @@ import { existsSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import Papa from 'papaparse';
 import { UserError } from '../../errors.js';
-import type { ResidualSeries } from '../../estimation/fit-api.js';
-import type { FitResult } from '../../estimation/fit-result.js';
+import type { ResidualSeries } from '../../diagnostics/types.js';
+import type { FitResult } from '../../estimation/fit/fit-result.js';
 
 /**
  * residuals.csv larger than this is refused with a clear message rather than exhausting memory

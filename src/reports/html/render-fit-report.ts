@@ -2,8 +2,8 @@
  * report.html: one self-contained page (inline CSS and SVG, no script, no external resource) that
  * renders a fit's results. A content security policy forbids the page any network fetch.
  */
-import type { ResidualSeries } from '../../estimation/fit-api.js';
-import type { FitResult } from '../../estimation/fit-result.js';
+import type { ResidualSeries } from '../../diagnostics/types.js';
+import type { FitResult } from '../../estimation/fit/fit-result.js';
 import { correlationSection } from './correlation-section.js';
 import { html } from './escape-html.js';
 import { experimentsSection } from './experiments-section.js';

@@ -1,8 +1,8 @@
-/** A small, hand-written FitOutcome for testing the writers (invented numbers, not a real fit). */
-import type { FitOutcome } from '../../../src/estimation/fit-api.js';
-import type { FitResult } from '../../../src/estimation/fit-result.js';
+/** A small, hand-written CompletedFit for testing the writers (invented numbers, not a real fit). */
+import type { CompletedFit } from '../../../src/estimation/fit/fit-result.js';
+import type { FitResult } from '../../../src/estimation/fit/fit-result.js';
 
-export function sampleOutcome(): FitOutcome {
+export function sampleOutcome(): CompletedFit {
   const result: FitResult = {
     tool: 'rigcal',
     version: '0.1.0',

@@ -5,7 +5,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import { RunFailure } from '../../src/errors.js';
-import { runFit, type FitDeps, type UncertaintyInput } from '../../src/estimation/fit-core.js';
+import { fitLoaded } from '../../src/estimation/fit/fit-model.js';
+import type { UncertaintyInput, UncertaintyResult } from '../../src/estimation/uncertainty.js';
+import { type FitCollaborators } from '../../src/estimation/fit/collaborators.js';
 import { solveLeastSquares } from '../../src/estimation/solver/index.js';
 import { runMultistart } from '../../src/estimation/multistart.js';
 import { residualDiagnostics } from '../../src/diagnostics/residual-diagnostics.js';
@@ -19,15 +21,20 @@ const params = (over: Partial<Record<string, Partial<ParameterSpec>>> = {}): Par
   { name: 'c', kind: 'fixed', value: 0.25, unit: 'V', where: {} },
 ];
 
-function deps(record: UncertaintyInput[] = []): FitDeps {
+function deps(record: UncertaintyInput[] = []): FitCollaborators {
   return {
     sim: decaySimulator,
     solve: (p, s, o) => solveLeastSquares(p, s, o),
-    uncertainty(input) {
+    uncertainty(input): UncertaintyResult {
       record.push(input);
-      const n = input.values.length;
-      const warnings = input.atBound.flatMap((b, i) => (b ? [`${input.names[i]} at ${b} bound ${b === 'lower' ? input.bounds[i].min : input.bounds[i].max} ${input.units[i]}`] : []));
-      return { stdError: input.values.map(() => 0.01), ci95: input.values.map((v) => [v - 0.02, v + 0.02] as [number, number]), correlation: Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))), warnings };
+      const n = input.theta.length;
+      const atBound = input.atBound!;
+      const warnings = atBound.flatMap((b, i) => (b ? [`${input.names[i]} at ${b} bound ${b === 'lower' ? input.bounds![i].min : input.bounds![i].max} ${input.units![i]}`] : []));
+      const parameters = input.theta.map((th, i) => ({
+        name: input.names[i], estimate: th, stdError: 0.01, ci95: [th - 0.02, th + 0.02] as [number, number], atBound: atBound[i], intervalReliable: true, determined: true,
+      }));
+      const matrix = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0)));
+      return { parameters, covariance: matrix, correlation: { names: [...input.names], matrix }, observations: input.residuals.length, freeParameters: n, dof: input.residuals.length - n, weightedSSE: 0, residualVariance: 1, tQuantile: 2, rank: n, warnings };
     },
     identifiability: () => ({ conditionNumber: 1, singularValues: [1], problems: [], warnings: [] }),
     multistart: runMultistart,
@@ -48,30 +55,30 @@ function rig(sigma?: number, p = params()) {
   return { model, compiled, data };
 }
 
-describe('fit pipeline (runFit)', () => {
+describe('fit pipeline (fitLoaded)', () => {
   it('a fit stuck on a bound with non-white residuals also runs 8 starts over the bounds, and says when none is better', () => {
     // k's upper bound (0.5) lies below the truth (0.8): every start ends on it, and the misfit leaves
     // the residuals far from white.
     const { model, compiled, data } = rig(undefined, params({ k: { max: 0.5, start: 0.3 } }));
-    const d: FitDeps = { ...deps(), diagnostics: (series, inputs, timeUnit) => residualDiagnostics(series, inputs, { timeUnit }) };
-    const searched = runFit(model, compiled, data, {}, d).result;
+    const d: FitCollaborators = { ...deps(), diagnostics: (series, inputs, timeUnit) => residualDiagnostics(series, inputs, { timeUnit }) };
+    const searched = fitLoaded(model, compiled, data, {}, d).result;
     expect(searched.warnings[0]).toMatch(/^from the model's start values k \(upper\) ended on its bound .* 8 starts spread over the bounds \(seed 1\) found no better one \(--starts 1 skips this search\)$/);
     expect(searched.starts).toBeUndefined(); // the fit from the model's start is the one reported
-    const single = runFit(model, compiled, data, { starts: 1 }, d).result;
+    const single = fitLoaded(model, compiled, data, { starts: 1 }, d).result;
     expect(single.warnings.join('\n')).toMatch(/may have stopped in a local optimum rather than at the best fit; try several starts spread over the bounds \(--starts 8\)/);
     expect(single.warnings.join('\n')).not.toMatch(/found no better/);
     // The work of both runs counts.
     expect(searched.iterations).toBeGreaterThan(single.iterations);
     expect(searched.simulations).toBeGreaterThan(single.simulations);
     // When none of the spread starts can be simulated, the finished fit stands (no failure).
-    const failing: FitDeps = {
+    const failing: FitCollaborators = {
       ...d,
       multistart: (_entries, _opts, solve) => {
         const bad = { ...solve([0, 0, 0], 0), status: 'failed' as const, cost: Number.NaN };
         return { results: [bad], best: bad, bestIndex: 0, points: [[0, 0, 0]], distinctOptima: 0, bestCosts: [] };
       },
     };
-    const kept = runFit(model, compiled, data, {}, failing).result;
+    const kept = fitLoaded(model, compiled, data, {}, failing).result;
     expect(kept.status).not.toBe('failed');
     expect(kept.warnings.join('\n')).toMatch(/try several starts spread over the bounds \(--starts 8\)/);
   });
@@ -79,7 +86,7 @@ describe('fit pipeline (runFit)', () => {
   it('estimates shared and per-experiment parameters, iterates the noise level, scores validation', () => {
     const { model, compiled, data } = rig();
     const rec: UncertaintyInput[] = [];
-    const out = runFit(model, compiled, data, {}, deps(rec));
+    const out = fitLoaded(model, compiled, data, {}, deps(rec));
     const r = out.result;
     expect(r.status).toBe('converged');
     expect(out.values.k).toBeCloseTo(0.8, 1);
@@ -109,7 +116,7 @@ describe('fit pipeline (runFit)', () => {
 
   it('with given sigmas reports the reduced chi-square and does not refit', () => {
     const { model, compiled, data } = rig(0.02);
-    const out = runFit(model, compiled, data, {}, deps());
+    const out = fitLoaded(model, compiled, data, {}, deps());
     const s = out.result.statistics;
     expect(s.reducedChiSquare).toBeCloseTo(s.weightedSSE / s.dof, 12);
     expect(out.result.outputs[0].sigma).toBe(0.02);
@@ -118,7 +125,7 @@ describe('fit pipeline (runFit)', () => {
 
   it('marks a parameter at its bound and passes bounds and units on for the warning', () => {
     const { model, compiled, data } = rig(0.02, params({ k: { min: 1, max: 100, start: 2 } }));
-    const out = runFit(model, compiled, data, {}, deps());
+    const out = fitLoaded(model, compiled, data, {}, deps());
     const k = out.result.parameters.find((p) => p.name === 'k')!;
     expect(k.atBound).toBe('lower');
     expect(out.result.warnings).toContain('k at lower bound 1 1/s');
@@ -127,13 +134,13 @@ describe('fit pipeline (runFit)', () => {
   it('fails with RunFailure when the start cannot be simulated', () => {
     const p = params({ k: { scale: 'linear', min: -2, max: 1, start: -1 } });
     const { model, compiled, data } = rig(0.02, p);
-    expect(() => runFit(model, compiled, data, {}, deps())).toThrow(RunFailure);
-    expect(() => runFit(model, compiled, data, {}, deps())).toThrow(/cannot simulate at the start values: state grows/);
+    expect(() => fitLoaded(model, compiled, data, {}, deps())).toThrow(RunFailure);
+    expect(() => fitLoaded(model, compiled, data, {}, deps())).toThrow(/cannot simulate at the start values: state grows/);
   });
 
   it('multistart keeps the best run and reports the starts', () => {
     const { model, compiled, data } = rig(0.02);
-    const out = runFit(model, compiled, data, { starts: 4, seed: 9 }, deps());
+    const out = fitLoaded(model, compiled, data, { starts: 4, seed: 9 }, deps());
     expect(out.result.starts?.requested).toBe(4);
     expect(out.result.starts?.seed).toBe(9);
     expect(out.result.starts!.bestCosts[0]).toBeCloseTo(out.result.statistics.weightedSSE, 8);
@@ -143,7 +150,7 @@ describe('fit pipeline (runFit)', () => {
   it('reports progress through the callback', () => {
     const { model, compiled, data } = rig(0.02);
     const seen: number[] = [];
-    runFit(model, compiled, data, { onProgress: (p) => seen.push(p.cost) }, deps());
+    fitLoaded(model, compiled, data, { onProgress: (p) => seen.push(p.cost) }, deps());
     expect(seen.length).toBeGreaterThan(2);
     expect(Math.min(...seen)).toBeLessThan(seen[0]);
   });

@@ -1,7 +1,10 @@
 /**
- * The result of `fit`: a plain object, written as fit.json (shared spec cli-and-results.md; the keys
- * listed there are a contract, more may be added) and rendered by reports.
+ * What a fit produces. `FitResult` is the record of the fit, a plain object written as fit.json
+ * (shared spec cli-and-results.md; the keys listed there are a contract, more may be added) and
+ * rendered by reports. `CompletedFit` is what `fitModel` returns: that record, plus the residual
+ * series at the estimates and the values by name, which the results folder and reports need.
  */
+import type { InputCorrelation, ResidualAutocorrelation, ResidualSeries, WhitenessResult } from '../../diagnostics/types.js';
 
 export interface ParameterResult {
   /** `name`, or `name@experiment` for a per-experiment copy. */
@@ -20,13 +23,6 @@ export interface ParameterResult {
   start?: number;
   scale?: 'log' | 'linear';
   atBound?: false | 'lower' | 'upper';
-}
-
-export interface WhitenessResult {
-  ljungBox: number;
-  lags: number;
-  pValue: number;
-  white: boolean;
 }
 
 export interface OutputResult {
@@ -48,9 +44,9 @@ export interface OutputResult {
   /** Lag (in the model's time unit) up to which residuals stay correlated, when they do. */
   correlatedUpTo?: number;
   /** Residual autocorrelation at lags 0..L (sample steps) and its 95 % band half-width. */
-  autocorrelation?: { lagStep: number; values: number[]; band: number };
+  autocorrelation?: ResidualAutocorrelation;
   /** Largest |cross-correlation| of residuals with each input, and its lag. */
-  inputCorrelation?: { input: string; maxAbs: number; lag: number; band: number }[];
+  inputCorrelation?: InputCorrelation[];
 }
 
 export interface IdentifiabilityProblem {
@@ -107,4 +103,12 @@ export interface FitResult {
   identifiability: { conditionNumber: number | null; singularValues?: number[]; problems: IdentifiabilityProblem[] };
   warnings: string[];
   provenance: Provenance;
+}
+
+/** What `fitModel` returns: the record, the residual series at the estimates, the values by name. */
+export interface CompletedFit {
+  result: FitResult;
+  residuals: ResidualSeries[];
+  /** Estimated and fixed values by name (`name` or `name@experiment`), in the parameters' units. */
+  values: Record<string, number>;
 }
