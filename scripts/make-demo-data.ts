@@ -16,7 +16,7 @@ import { fixtureFiles } from './demo-data/fixtures.js';
 import { flywheelScenario } from './demo-data/flywheel.js';
 import { frictionScenario } from './demo-data/friction.js';
 import { heatedBlockScenario } from './demo-data/heated-block.js';
-import { seededRng } from './demo-data/random.js';
+import { seededRandom } from '../src/util/random.js';
 import type { Scenario, ScenarioFile, ScenarioTruth } from './demo-data/scenario.js';
 import { shakerScenario } from './demo-data/shaker.js';
 
@@ -42,12 +42,12 @@ export function generateAll(outRoot = root, seed = DEFAULT_SEED): string[] {
   const truths: Record<string, ScenarioTruth> = {};
   scenarios.forEach(([name, scenario], k) => {
     const scenarioSeed = seed + k;
-    const out = scenario(seededRng(scenarioSeed));
+    const out = scenario(seededRandom(scenarioSeed));
     for (const f of out.files) write(f, scenarioSeed);
     truths[name] = out.truth;
   });
   const fixtureSeed = seed + 100;
-  for (const f of fixtureFiles(seededRng(fixtureSeed))) write(f, fixtureSeed);
+  for (const f of fixtureFiles(seededRandom(fixtureSeed))) write(f, fixtureSeed);
   writeFileSync(join(outRoot, 'demo-data/truth.json'), JSON.stringify({ seed, generator: 'scripts/make-demo-data.ts', scenarios: truths }, null, 2) + '\n');
   writeFileSync(join(outRoot, 'demo-data/TRUTH.md'), truthMarkdown(truths, seed));
   written.push('demo-data/truth.json', 'demo-data/TRUTH.md');

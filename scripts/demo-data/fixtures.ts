@@ -8,7 +8,7 @@ import { holdAt, holdJumps, integrateRk4 } from './integrate.js';
 import { simulateBlock } from './heated-block.js';
 import { simulateMotor, flywheelTruth } from './flywheel.js';
 import { simulateMount } from './shaker.js';
-import type { Rng } from './random.js';
+import type { SeededRandom as Rng } from '../../src/util/random.js';
 import { noisy, randomRows, type ScenarioFile } from './scenario.js';
 import { chirp, lowPassNoise, prbs, roundTo, sampleTimes, steps } from './signals.js';
 

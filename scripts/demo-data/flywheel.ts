@@ -3,7 +3,7 @@
  * 0.9 s. Voltage commands are zero-order hold; speed is logged in rpm, current in A.
  */
 import { holdAt, holdJumps, integrateRk4 } from './integrate.js';
-import type { Rng } from './random.js';
+import type { SeededRandom as Rng } from '../../src/util/random.js';
 import { noisy, randomRows, type ScenarioOutput } from './scenario.js';
 import { prbs, sampleTimes, steps } from './signals.js';
 

@@ -1,5 +1,5 @@
 /** Static friction curve (models/friction-curve.yaml): steady torque at held speeds, both directions. */
-import type { Rng } from './random.js';
+import type { SeededRandom as Rng } from '../../src/util/random.js';
 import { noisy, type ScenarioOutput } from './scenario.js';
 
 export const frictionTruth = { Tc: 0.05, Ts: 0.08, vst: 2.0, b: 4e-4 };

@@ -3,7 +3,7 @@
  * heater power (hold) and a drifting room temperature (linear). Temperatures are logged in degC.
  */
 import { holdAt, holdJumps, integrateRk4, linearAt } from './integrate.js';
-import type { Rng } from './random.js';
+import type { SeededRandom as Rng } from '../../src/util/random.js';
 import { noisy, randomRows, type ScenarioOutput } from './scenario.js';
 import { prbs, roundTo, sampleTimes, steps } from './signals.js';
 

@@ -1,6 +1,6 @@
 /** What one scenario produces: CSV files and the true values behind them. */
 import type { Column } from './csv.js';
-import type { Rng } from './random.js';
+import type { SeededRandom as Rng } from '../../src/util/random.js';
 
 export interface ScenarioFile {
   /** Path relative to the project root. */

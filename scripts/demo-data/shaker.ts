@@ -4,7 +4,7 @@
  * offset of its own in each test.
  */
 import { integrateRk4, linearAt } from './integrate.js';
-import type { Rng } from './random.js';
+import type { SeededRandom as Rng } from '../../src/util/random.js';
 import { noisy, type ScenarioOutput } from './scenario.js';
 import { chirp, lowPassNoise, roundTo, sampleTimes } from './signals.js';
 

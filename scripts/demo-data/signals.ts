@@ -1,5 +1,5 @@
 /** Excitation signals for the demo tests: steps, PRBS, chirp, band-limited noise. */
-import type { Rng } from './random.js';
+import type { SeededRandom as Rng } from '../../src/util/random.js';
 
 export function sampleTimes(n: number, dt: number, t0 = 0): Float64Array {
   // k*dt rather than accumulating, rounded to 12 digits so that the file shows clean decimals and

@@ -9,7 +9,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/run.js';
 import { rankModels } from '../../src/comparison/rank-models.js';
 import { rankJson, rankText } from '../../src/comparison/rank-report.js';
-import { gaussian, modelText, mulberry32, writeRigData } from './synthetic-rig.js';
+import { modelText, normalDeviates, writeRigData } from './synthetic-rig.js';
 
 async function cli(args: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
   let out = '';
@@ -104,7 +104,7 @@ describe('rank through the command line on static candidates', () => {
   let dir: string;
   beforeAll(() => {
     dir = mkdtempSync(path.join(tmpdir(), 'rigcal-static-'));
-    const noise = gaussian(mulberry32(7));
+    const noise = normalDeviates(7);
     const rows = ['x,y'];
     for (let i = 0; i < 60; i++) {
       const x = i / 59;

@@ -16,17 +16,9 @@ export const NOISE_MM = 0.5;
 const DT = 0.02;
 const SAMPLES = 301;
 
-import { mulberry32 } from '../../src/util/random.js';
+import { mulberry32, normalDeviates } from '../../src/util/random.js';
 
-export { mulberry32 };
-
-/** Standard normal deviates by the Box-Muller transform. */
-export function gaussian(rand: () => number): () => number {
-  return () => {
-    const u = Math.max(rand(), 1e-300);
-    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rand());
-  };
-}
+export { mulberry32, normalDeviates };
 
 /** m x'' + c x' + k x = F(t), F linear between samples; RK4 with `sub` steps per sample. */
 function integrate(force: Float64Array, m: number, k: number, c: number, x0: number, sub = 20): Float64Array {
@@ -137,7 +129,7 @@ export function writeRigData(seed = 20261201, dir?: string): string {
   const folder = dir ?? mkdtempSync(path.join(tmpdir(), 'rigcal-rig-'));
   mkdirSync(folder, { recursive: true });
   const f = forces(seed);
-  const noise = gaussian(mulberry32(seed + 1));
+  const noise = normalDeviates(seed + 1);
   writeFileSync(path.join(folder, 'shake.csv'), csv(f.shake, integrate(f.shake, TRUTH.m, TRUTH.k, TRUTH.c, TRUTH.x0Shake), noise, 57));
   writeFileSync(path.join(folder, 'bump.csv'), csv(f.bump, integrate(f.bump, TRUTH.mBump, TRUTH.k, TRUTH.c, TRUTH.x0Bump), noise));
   writeFileSync(path.join(folder, 'held-out.csv'), csv(f.heldOut, integrate(f.heldOut, TRUTH.m, TRUTH.k, TRUTH.c, 0), noise));

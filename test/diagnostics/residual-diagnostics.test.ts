@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { ResidualSeries } from '../../src/diagnostics/types.js';
 import { residualDiagnostics } from '../../src/diagnostics/index.js';
-import { normalNoise } from './random.js';
+import { normalDeviates as normalNoise } from '../../src/util/random.js';
 
 function seriesOf(residual: ArrayLike<number>, dt = 0.01): ResidualSeries {
   const n = residual.length;

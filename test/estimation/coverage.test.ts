@@ -10,7 +10,7 @@ import { loadAllData } from '../../src/estimation/fit/fit-model.js';
 import { fitLoaded } from '../../src/estimation/fit/fit-model.js';
 import { compileModel } from '../../src/model/compile/index.js';
 import { loadModel } from '../../src/model/load/index.js';
-import { normalGenerator } from './helpers/rng.js';
+import { normalDeviates as normalGenerator } from '../../src/util/random.js';
 import { SATURATION_TRUTH, SATURATION_X, tempDir, writeSaturationRig } from './helpers/rigs.js';
 
 describe('coverage of the 95 % intervals', () => {

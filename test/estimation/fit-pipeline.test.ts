@@ -13,7 +13,7 @@ import { runMultistart } from '../../src/estimation/multistart.js';
 import { residualDiagnostics } from '../../src/diagnostics/residual-diagnostics.js';
 import type { ParameterSpec } from '../../src/model/types.js';
 import { decayCompiled, decayData, decayModel, decaySimulator } from './helpers/decay-rig.js';
-import { normalGenerator } from './helpers/rng.js';
+import { normalDeviates as normalGenerator } from '../../src/util/random.js';
 
 const params = (over: Partial<Record<string, Partial<ParameterSpec>>> = {}): ParameterSpec[] => [
   { name: 'k', kind: 'free', min: 0.01, max: 100, start: 0.5, scale: 'log', perExperiment: false, unit: '1/s', where: {}, ...over.k } as ParameterSpec,

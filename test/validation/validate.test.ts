@@ -13,7 +13,7 @@ import { fitModel } from '../../src/estimation/fit/fit-model.js';
 import { loadModel } from '../../src/model/load/index.js';
 import { writeResults } from '../../src/reports/write-results.js';
 import type { ValidationResult } from '../../src/validation/validation-result.js';
-import { NOISE_MM, gaussian, modelText, mulberry32, writeRigData } from '../comparison/synthetic-rig.js';
+import { NOISE_MM, modelText, normalDeviates, writeRigData } from '../comparison/synthetic-rig.js';
 
 async function cli(args: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
   let out = '';
@@ -137,7 +137,7 @@ describe('validate a static model', () => {
     // A calibration curve of our own: y = 2 x + 0.5 x^2 with seeded noise 0.01; fitted on one sweep,
     // scored on another (different x points and noise).
     const dir = mkdtempSync(path.join(tmpdir(), 'rigcal-static-val-'));
-    const noise = gaussian(mulberry32(5));
+    const noise = normalDeviates(5);
     const sweep = (n: number, offset: number) =>
       ['x,y', ...Array.from({ length: n }, (_, i) => { const x = (i + offset) / n; return `${x},${2 * x + 0.5 * x * x + 0.01 * noise()}`; })].join('\n') + '\n';
     writeFileSync(path.join(dir, 'fit.csv'), sweep(60, 0));

@@ -9,16 +9,13 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from '../../../src/cli/run.js';
-import { mulberry32 } from '../../../src/util/random.js';
+import { mulberry32, normalDeviates } from '../../../src/util/random.js';
 
 /** The project's seeded uniform generator (mulberry32). */
 export const uniform = mulberry32;
 
-/** Standard normal deviates by the Box-Muller transform. */
-export function normal(seed: number): () => number {
-  const u = uniform(seed);
-  return () => Math.sqrt(-2 * Math.log(Math.max(u(), 1e-300))) * Math.cos(2 * Math.PI * u());
-}
+/** Standard normal deviates from the project's seeded generator. */
+export const normal = normalDeviates;
 
 /** A random binary level sequence that may switch every `every` samples (PRBS-like excitation). */
 export function binarySequence(n: number, every: number, low: number, high: number, seed: number): Float64Array {

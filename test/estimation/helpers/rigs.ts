@@ -5,7 +5,7 @@
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { normalGenerator } from './rng.js';
+import { normalDeviates as normalGenerator } from '../../../src/util/random.js';
 
 export function tempDir(prefix = 'rigcal-fit-'): string {
   return mkdtempSync(join(tmpdir(), prefix));

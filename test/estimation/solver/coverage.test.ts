@@ -5,14 +5,10 @@
  * deviations (a false alarm about once in 700 runs; the seed is fixed, so the test is repeatable).
  */
 import { describe, expect, it } from 'vitest';
-import { mulberry32 } from '../../../src/util/random.js';
+import { normalDeviates } from '../../../src/util/random.js';
 import { solveLeastSquares } from '../../../src/estimation/solver/index.js';
 import { computeUncertainty } from '../../../src/estimation/uncertainty.js';
 
-function gaussian(random: () => number): () => number {
-  // Box-Muller transform.
-  return () => Math.sqrt(-2 * Math.log(1 - random())) * Math.cos(2 * Math.PI * random());
-}
 
 describe('coverage of the 95 % intervals (synthetic data, known truth)', () => {
   it('covers A and tau of y = A exp(-x/tau) + noise about 95 % of the time, tau in log coordinates', () => {
@@ -20,7 +16,7 @@ describe('coverage of the 95 % intervals (synthetic data, known truth)', () => {
     const tau = 2;
     const sigma = 0.05;
     const x = Array.from({ length: 30 }, (_, i) => (i * 6) / 29);
-    const noise = gaussian(mulberry32(20261201));
+    const noise = normalDeviates(20261201);
     const runs = 400;
     let coverA = 0;
     let coverTau = 0;
