@@ -1,5 +1,5 @@
 /**
- * `validate` as a library function: simulate a calibrated model (model file + estimates.yaml) on
+ * What `validate` computes (the verb, which also writes the results folder: src/verbs/validate.ts): simulate a calibrated model (model file + estimates.yaml) on
  * data it was not fitted to and score it: per output RMSE, NRMSE, R^2 and the whiteness of the
  * residuals. Nothing is fitted here.
  */
@@ -12,7 +12,7 @@ import { nearestNames } from '../data/nearest.js';
 import { compileModel } from '../model/compile/index.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
-import { readEstimates, type EstimatesFile } from '../reports/read-estimates.js';
+import { checkModelVersion, readEstimates, type EstimatesFile } from '../files/estimates-file.js';
 import { parameterVector } from '../simulation/parameters.js';
 import { parseUnit } from '../units/registry.js';
 import { simulateExperiment } from '../simulation/simulate.js';
@@ -49,16 +49,8 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
   const loaded = loadModel(path.resolve(cwd, options.modelFile), { overrides: options.overrides });
   const estimates = readEstimates(path.resolve(cwd, options.estimatesFile));
   const warnings: string[] = [];
-  if (estimates.model.sha256 !== loaded.sha256) {
-    if (!options.force) {
-      throw new UserError({
-        where: { file: options.estimatesFile, key: 'model.sha256' },
-        what: `these estimates belong to another version of the model: they were made for ${estimates.model.file || 'a model file'} with sha256 ${estimates.model.sha256 || '(none recorded)'}, but ${options.modelFile} has sha256 ${loaded.sha256}`,
-        fix: 'fit this model file again, or add --force if you changed only comments or layout',
-      });
-    }
-    warnings.push(`the estimates were made for a model file with sha256 ${estimates.model.sha256}, not this one (${loaded.sha256}); validated anyway because of --force`);
-  }
+  const mismatch = checkModelVersion(estimates, loaded, { estimatesLabel: options.estimatesFile, modelLabel: options.modelFile, force: options.force });
+  if (mismatch) warnings.push(`${mismatch.warning}; validated anyway because of --force`);
   const { model: calibrated, values } = applyEstimates(loaded, estimates, options.estimatesFile, warnings);
 
   // Which experiments: named ones, a new log, or every validation experiment of the model file.

@@ -5,7 +5,6 @@
  * --json) and nothing else.
  */
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
 import { UserError } from '../../errors.js';
 import type { FitProgress } from '../../estimation/fit-api.js';
 import type { CommandContext } from '../io.js';
@@ -53,26 +52,19 @@ export function register(program: Command, ctx: CommandContext): void {
     .addHelpText('after', '\nExample:\n  rigcal fit models/flywheel.yaml --starts 8 --seed 1 -o flywheel-fit\n')
     .action(
       ctx.action(async (modelFile: string, opts: FitCliOptions) => {
-        // The pipeline and its writers load when the command runs, not when the CLI starts (every
-        // command registers at start-up; `rigcal --help` or another command need none of this).
-        const [{ fitModel }, { loadModel, parseOverrides }, { renderFitJson }, { renderFitSummary }, { defaultResultsFolder, assertReplaceable, reportRenderer, writeResults }] = await Promise.all([
-          import('../../estimation/fit.js'),
+        // The verb and the summary load when the command runs, not when the CLI starts (every command
+        // registers at start-up; `rigcal --help` or another command need none of this).
+        const [{ runFit }, { parseOverrides }, { renderFitJson }, { renderFitSummary }] = await Promise.all([
+          import('../../verbs/fit.js'),
           import('../../model/load/index.js'),
           import('../../reports/fit-json.js'),
           import('../../reports/summary-table.js'),
-          import('../../reports/write-results.js'),
         ]);
         const io = ctx.io;
         const starts = positiveInteger(opts.starts, '--starts', 1);
         const seed = positiveInteger(opts.seed, '--seed', 0);
         const maxIterations = positiveInteger(opts.maxIterations, '--max-iterations', 1);
         const overrides = parseOverrides(opts.set ?? []);
-        const model = loadModel(resolve(io.cwd, modelFile), { overrides });
-        // Provenance names the model file as the user gave it, not as resolved here.
-        model.fileAsGiven = modelFile;
-        const folder = opts.output ? resolve(io.cwd, opts.output) : defaultResultsFolder(io.cwd, model.name);
-        // Refuse a foreign folder before spending time on the fit.
-        assertReplaceable(folder);
         const showProgress = io.stderrIsTTY && !opts.quiet;
         let lastLine = 0;
         const onProgress = showProgress
@@ -82,11 +74,10 @@ export function register(program: Command, ctx: CommandContext): void {
               lastLine = line.length;
             }
           : undefined;
-        const outcome = fitModel(model, { starts, seed, maxIterations, onProgress });
+        const { outcome, folder } = await runFit({ modelFile, cwd: io.cwd, output: opts.output, overrides, starts, seed, maxIterations, onProgress });
         if (showProgress && lastLine) io.stderr('\n');
-        const written = await writeResults(folder, outcome, { outputs: model.outputs.map((o) => o.name), renderHtml: reportRenderer });
         if (opts.json) io.stdout(renderFitJson(outcome.result));
-        else io.stdout(renderFitSummary(outcome.result, written));
+        else io.stdout(renderFitSummary(outcome.result, folder));
         return outcome.result.status === 'failed' ? 1 : 0;
       }),
     );
