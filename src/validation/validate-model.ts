@@ -53,42 +53,7 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
   if (mismatch) warnings.push(`${mismatch.warning}; validated anyway because of --force`);
   const { model: calibrated, values } = applyEstimates(loaded, estimates, options.estimatesFile, warnings);
 
-  // Which experiments: named ones, a new log, or every validation experiment of the model file.
-  let model = calibrated;
-  let indices: number[];
-  if (options.dataTimeUnit !== undefined && !options.dataFile) {
-    throw new UserError({ where: { key: '--time-unit' }, what: '--time-unit applies to a new log given with --data only', fix: 'drop --time-unit, or give --data FILE.csv' });
-  }
-  if (options.dataTimeUnit !== undefined && !parseUnit(options.dataTimeUnit)) {
-    throw new UserError({ where: { key: '--time-unit' }, what: `"${options.dataTimeUnit}" is not a unit rigcal knows`, fix: 'e.g. --time-unit ms' });
-  }
-  if (options.dataFile && options.experiments?.length) {
-    throw new UserError({ where: { key: '--data' }, what: 'give either -e NAME or --data FILE, not both', fix: 'run validate once per choice' });
-  }
-  if (options.dataFile) {
-    const extended = withNewLog(calibrated, options.dataFile, cwd, options.dataTimeUnit);
-    model = extended.model;
-    indices = [extended.index];
-  } else if (options.experiments?.length) {
-    const names = calibrated.experiments.map((e) => e.name);
-    const problems: Problem[] = [];
-    indices = [];
-    for (const name of options.experiments) {
-      const i = names.indexOf(name);
-      if (i < 0) problems.push({ where: { file: options.modelFile, key: 'experiments' }, what: `has no experiment "${name}"`, fix: `name one of: ${nearestNames(name, names).join(', ') || names.join(', ')}` });
-      else indices.push(i);
-    }
-    if (problems.length) throw new UserError(problems);
-  } else {
-    indices = calibrated.experiments.flatMap((e, i) => (e.role === 'validation' ? [i] : []));
-    if (!indices.length) {
-      throw new UserError({
-        where: { file: options.modelFile, key: 'experiments' },
-        what: 'has no experiment with `role: validation`',
-        fix: 'name an experiment with -e NAME, or give a new log with --data FILE.csv',
-      });
-    }
-  }
+  const { model, indices } = chooseExperiments(calibrated, options, cwd);
 
   const compiled = compileModel(model);
   const series: ResidualSeries[] = [];
@@ -151,6 +116,44 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
   };
   const noise = Object.fromEntries(Object.entries(estimates.noise).map(([k, v]) => [k, { sigma: v.sigma, estimated: v.estimated }]));
   return { result, series, noise };
+}
+
+/** Which experiments to score: named ones, a new log (added to a copy of the model), or every validation experiment. */
+function chooseExperiments(calibrated: Model, options: ValidateOptions, cwd: string): { model: Model; indices: number[] } {
+  if (options.dataTimeUnit !== undefined && !options.dataFile) {
+    throw new UserError({ where: { key: '--time-unit' }, what: '--time-unit applies to a new log given with --data only', fix: 'drop --time-unit, or give --data FILE.csv' });
+  }
+  if (options.dataTimeUnit !== undefined && !parseUnit(options.dataTimeUnit)) {
+    throw new UserError({ where: { key: '--time-unit' }, what: `"${options.dataTimeUnit}" is not a unit rigcal knows`, fix: 'e.g. --time-unit ms' });
+  }
+  if (options.dataFile && options.experiments?.length) {
+    throw new UserError({ where: { key: '--data' }, what: 'give either -e NAME or --data FILE, not both', fix: 'run validate once per choice' });
+  }
+  if (options.dataFile) {
+    const extended = withNewLog(calibrated, options.dataFile, cwd, options.dataTimeUnit);
+    return { model: extended.model, indices: [extended.index] };
+  }
+  if (options.experiments?.length) {
+    const names = calibrated.experiments.map((e) => e.name);
+    const problems: Problem[] = [];
+    const indices: number[] = [];
+    for (const name of options.experiments) {
+      const i = names.indexOf(name);
+      if (i < 0) problems.push({ where: { file: options.modelFile, key: 'experiments' }, what: `has no experiment "${name}"`, fix: `name one of: ${nearestNames(name, names).join(', ') || names.join(', ')}` });
+      else indices.push(i);
+    }
+    if (problems.length) throw new UserError(problems);
+    return { model: calibrated, indices };
+  }
+  const indices = calibrated.experiments.flatMap((e, i) => (e.role === 'validation' ? [i] : []));
+  if (!indices.length) {
+    throw new UserError({
+      where: { file: options.modelFile, key: 'experiments' },
+      what: 'has no experiment with `role: validation`',
+      fix: 'name an experiment with -e NAME, or give a new log with --data FILE.csv',
+    });
+  }
+  return { model: calibrated, indices };
 }
 
 /**

@@ -6,7 +6,6 @@
  * forces it; the output is never the model file, the estimates file or a data file; an existing
  * output is replaced only when asked; the file is written through a temporary sibling and a rename.
  */
-import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { UserError } from '../errors.js';
@@ -18,6 +17,7 @@ import { inputsOfRun, outputFileProblem } from '../files/input-guard.js';
 import { TOOL, VERSION } from '../version.js';
 import { freezeModelText, type FreezeSummary } from '../handoff/freeze-document.js';
 import { parameterTable, parameterTableCsv, parameterTableJson } from '../handoff/parameter-table.js';
+import { sha256Hex } from '../files/sha256.js';
 
 export type FreezeFormat = 'yaml' | 'json' | 'csv';
 
@@ -79,7 +79,7 @@ export function prepareFreeze(options: FreezeOptions): { text: string; outcome: 
   const { text, summary } = freezeModelText(readFileSync(modelPath, 'utf8'), model, estimates, {
     outputDir: path.dirname(output),
     estimatesLabel: options.estimatesFile,
-    estimatesSha256: createHash('sha256').update(estimatesBytes).digest('hex'),
+    estimatesSha256: sha256Hex(estimatesBytes),
     date,
     toolVersion: `${VERSION}`,
   });
