@@ -5,7 +5,7 @@
  * --json) and nothing else.
  */
 import type { Command } from 'commander';
-import { UserError } from '../../errors.js';
+import { integerOption } from '../options.js';
 import type { FitProgress } from '../../estimation/fit-api.js';
 import type { CommandContext } from '../io.js';
 
@@ -17,15 +17,6 @@ interface FitCliOptions {
   json?: boolean;
   quiet?: boolean;
   set: string[];
-}
-
-function positiveInteger(text: string | undefined, option: string, min: number): number | undefined {
-  if (text === undefined) return undefined;
-  const n = Number(text);
-  if (!Number.isInteger(n) || n < min) {
-    throw new UserError({ where: { key: option }, what: `${option} takes a whole number of at least ${min}, got "${text}"`, fix: `e.g. ${option} ${Math.max(min, 8)}` });
-  }
-  return n;
 }
 
 function collect(value: string, previous: string[]): string[] {
@@ -61,9 +52,9 @@ export function register(program: Command, ctx: CommandContext): void {
           import('../../reports/summary-table.js'),
         ]);
         const io = ctx.io;
-        const starts = positiveInteger(opts.starts, '--starts', 1);
-        const seed = positiveInteger(opts.seed, '--seed', 0);
-        const maxIterations = positiveInteger(opts.maxIterations, '--max-iterations', 1);
+        const starts = integerOption(opts.starts, '--starts', 1);
+        const seed = integerOption(opts.seed, '--seed', 0);
+        const maxIterations = integerOption(opts.maxIterations, '--max-iterations', 1);
         const overrides = parseOverrides(opts.set ?? []);
         const showProgress = io.stderrIsTTY && !opts.quiet;
         let lastLine = 0;

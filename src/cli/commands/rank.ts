@@ -1,6 +1,6 @@
 /** The `rank` command: fit candidate models of one rig on the same data and rank them. */
 import type { Command } from 'commander';
-import { UserError } from '../../errors.js';
+import { integerOption } from '../options.js';
 import type { CommandContext } from '../io.js';
 
 interface RankCliOptions {
@@ -37,9 +37,9 @@ AICc and BIC count the free parameters plus the estimated noise levels.`,
       ctx.action(async (files: string[], opts: RankCliOptions) => {
         // Loaded when the command runs: start-up (and every other command) does without them.
         const [{ runRank }, { rankJson, rankText }, { toJson }] = await Promise.all([import('../../verbs/rank.js'), import('../../comparison/rank-report.js'), import('../../files/json.js')]);
-        const starts = optionalInteger(opts.starts, '--starts', 1);
-        const seed = optionalInteger(opts.seed, '--seed', 0);
-        const maxIterations = optionalInteger(opts.maxIterations, '--max-iterations', 1);
+        const starts = integerOption(opts.starts, '--starts', 1);
+        const seed = integerOption(opts.seed, '--seed', 0);
+        const maxIterations = integerOption(opts.maxIterations, '--max-iterations', 1);
         const showProgress = ctx.io.stderrIsTTY && !opts.quiet;
         const outcome = runRank({
           modelFiles: files,
@@ -54,13 +54,4 @@ AICc and BIC count the free parameters plus the estimated noise levels.`,
         return outcome.failures.length ? 1 : 0;
       }),
     );
-}
-
-function optionalInteger(text: string | undefined, option: string, min: number): number | undefined {
-  if (text === undefined) return undefined;
-  const v = Number(text);
-  if (!Number.isInteger(v) || v < min) {
-    throw new UserError({ where: { key: option }, what: `${option} must be an integer of at least ${min}, not "${text}"`, fix: `e.g. ${option} ${Math.max(min, 5)}` });
-  }
-  return v;
 }
