@@ -41,12 +41,21 @@ export { gaussianLogLikelihood, aic, aicc, bic, akaikeWeights, likelihoodRatioTe
 
 // Diagnostics and reports.
 export { residualDiagnostics, scoreSeries, ljungBox, autocorrelation, crossCorrelation } from './diagnostics/index.js';
-export { renderFitReport, writeReportForFolder, readResultsFolder } from './reports/html/index.js';
-export { readEstimates } from './reports/read-estimates.js';
-export type { EstimatesFile, EstimateEntry } from './reports/read-estimates.js';
-export { writeResults, defaultResultsFolder } from './reports/write-results.js';
+export { renderFitReport, readResultsFolder } from './reports/html/index.js';
+export { writeResults } from './reports/write-results.js';
+
+// Files in and out: estimates.yaml and whether it belongs to a model version, results folders.
+export { readEstimates, checkModelVersion } from './files/estimates-file.js';
+export type { EstimatesFile, EstimateEntry, ModelVersionMismatch } from './files/estimates-file.js';
+export { defaultResultsFolder, FIT_FOLDER, VALIDATION_FOLDER } from './files/results-folder.js';
+export type { ResultsFolderKind } from './files/results-folder.js';
 
 // Validation, ranking and hand-off.
 export { validateModel } from './validation/index.js';
-export { rankModels, rankFits } from './comparison/index.js';
-export { freezeModel, parameterTable } from './handoff/index.js';
+export { rankFits } from './comparison/index.js';
+export { parameterTable } from './handoff/index.js';
+
+// The commands as verbs: plain options in, a plain result out (what the CLI calls).
+export * from './verbs/index.js';
+// The names these verbs had before they were gathered in src/verbs.
+export { runRank as rankModels, runFreeze as freezeModel } from './verbs/index.js';

@@ -1,6 +1,6 @@
 /** The `rank` result rendered for people (a table and sentences) and for programs (JSON). */
 import { fmt, fmtP, type RankedModel } from './rank-fits.js';
-import type { RankOutcome } from './rank-models.js';
+import type { RankOutcome } from '../verbs/rank.js';
 
 export function rankJson(r: RankOutcome): object {
   return {

@@ -4,10 +4,10 @@
  * the bytes of their data files (SHA-256), their role and window, not by name or path, so that
  * models in different folders pointing at the same log compare as equal.
  */
-import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { UserError, type Problem } from '../errors.js';
 import type { ExperimentSpec, Model } from '../model/types.js';
+import { sha256Hex } from '../files/sha256.js';
 
 interface ExperimentKey {
   key: string;
@@ -23,7 +23,7 @@ export function checkSameData(models: readonly Model[]): void {
     let h = hashes.get(file);
     if (h === undefined) {
       try {
-        h = createHash('sha256').update(readFileSync(file)).digest('hex');
+        h = sha256Hex(readFileSync(file));
       } catch (err) {
         throw new UserError({ where: { file }, what: `cannot read this data file (${(err as NodeJS.ErrnoException).code ?? String(err)})`, fix: 'run `rigcal check` on each model' });
       }

@@ -17,7 +17,7 @@ import { isDeepStrictEqual } from 'node:util';
 import { Pair, Scalar, YAMLMap, YAMLSeq, isMap, isScalar, isSeq, parseDocument, type Document } from 'yaml';
 import { UserError, type Problem } from '../errors.js';
 import type { FreeParameterSpec, Model } from '../model/types.js';
-import type { EstimateEntry, EstimatesFile } from '../reports/read-estimates.js';
+import type { EstimateEntry, EstimatesFile } from '../files/estimates-file.js';
 import { spliceFreeze } from './freeze-splice.js';
 
 export interface FreezeDocumentOptions {

@@ -1,6 +1,4 @@
-/** Hand-off to a simulation team: `freeze` (a calibrated copy of the model, or the parameter table). */
-export { freezeModel, prepareFreeze } from './freeze.js';
-export type { FreezeFormat, FreezeOptions, FreezeOutcome } from './freeze.js';
+/** Hand-off to a simulation team: the calibrated copy of the model, or the parameter table (the verb: src/verbs/freeze.ts). */
 export { freezeModelText } from './freeze-document.js';
 export type { FreezeDocumentOptions, FreezeSummary } from './freeze-document.js';
 export { parameterTable, parameterTableCsv, parameterTableJson, PARAMETER_TABLE_COLUMNS } from './parameter-table.js';

@@ -3,8 +3,9 @@
  * rather than a model file: one row per parameter (per-experiment copies as `name@experiment`).
  * Values keep full precision (JavaScript's shortest round-trip form).
  */
-import { stringify } from 'csv-stringify/sync';
-import type { EstimatesFile } from '../reports/read-estimates.js';
+import { renderCsv } from '../files/csv.js';
+import type { EstimatesFile } from '../files/estimates-file.js';
+import { toJson } from '../files/json.js';
 
 export interface ParameterTableRow {
   name: string;
@@ -35,16 +36,17 @@ export function parameterTable(estimates: EstimatesFile): ParameterTableRow[] {
 }
 
 export function parameterTableJson(rows: readonly ParameterTableRow[]): string {
-  return `${JSON.stringify(rows, null, 2)}\n`;
+  return toJson(rows);
 }
 
 /** CSV with a header row; empty cells where a value does not apply or is not determined. */
 export function parameterTableCsv(rows: readonly ParameterTableRow[]): string {
-  return stringify(
+  return renderCsv(
+    PARAMETER_TABLE_COLUMNS,
+    // String(v), not the CSV writer's number cell: an infinite standard error stays visible.
     rows.map((r) => PARAMETER_TABLE_COLUMNS.map((c) => {
       const v = r[c];
       return v === null ? '' : typeof v === 'number' ? String(v) : v;
     })),
-    { header: true, columns: [...PARAMETER_TABLE_COLUMNS] },
   );
 }

@@ -1,6 +1,7 @@
-/** fit.json: the whole FitResult, machine-readable. Non-finite numbers become null (JSON has none). */
+/** fit.json: the whole FitResult, machine-readable (non-finite numbers become null: src/files/json.ts). */
 import type { FitResult } from '../estimation/fit/fit-result.js';
+import { toJson } from '../files/json.js';
 
 export function renderFitJson(fit: FitResult): string {
-  return JSON.stringify(fit, (_key, value) => (typeof value === 'number' && !Number.isFinite(value) ? null : value), 2) + '\n';
+  return toJson(fit);
 }

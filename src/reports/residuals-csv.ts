@@ -4,20 +4,13 @@
  * where a sample is missing or the output is not logged in that experiment.
  */
 import type { ResidualSeries } from '../diagnostics/types.js';
-
-function num(x: number): string {
-  return Number.isFinite(x) ? String(x) : '';
-}
-
-function csvField(s: string): string {
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
+import { CsvText } from '../files/csv.js';
 
 /** `outputs`: every output of the model, in model order (columns appear even where not logged). */
 export function renderResidualsCsv(series: readonly ResidualSeries[], outputs: readonly string[]): string {
   const header = ['experiment', 'role', 'time'];
   for (const o of outputs) header.push(`${o}_measured`, `${o}_simulated`, `${o}_residual`);
-  const lines = [header.map(csvField).join(',')];
+  const csv = new CsvText(header);
   const experiments: string[] = [];
   const byExperiment = new Map<string, Map<string, ResidualSeries>>();
   for (const s of series) {
@@ -38,7 +31,7 @@ export function renderResidualsCsv(series: readonly ResidualSeries[], outputs: r
     }
     const cols = outputs.map((o) => m.get(o));
     for (let i = 0; i < n; i++) {
-      const row = [csvField(name), first.role, num(first.time[i])];
+      const row: (string | number)[] = [name, first.role, first.time[i]];
       for (const s of cols) {
         if (!s) {
           row.push('', '', '');
@@ -46,10 +39,10 @@ export function renderResidualsCsv(series: readonly ResidualSeries[], outputs: r
         }
         const meas = s.measured[i];
         const sim = s.simulated[i];
-        row.push(num(meas), num(sim), Number.isFinite(meas) && Number.isFinite(sim) ? num(meas - sim) : '');
+        row.push(meas, sim, Number.isFinite(meas) && Number.isFinite(sim) ? meas - sim : '');
       }
-      lines.push(row.join(','));
+      csv.row(row);
     }
   }
-  return lines.join('\n') + '\n';
+  return csv.toString();
 }

@@ -7,6 +7,7 @@
 import type { ExperimentData } from '../data/types.js';
 import type { Model } from '../model/types.js';
 import type { SimulationResult } from '../simulation/types.js';
+import { CsvText, type CsvCell } from '../files/csv.js';
 
 export interface SimulatedExperiment {
   result: SimulationResult;
@@ -14,20 +15,10 @@ export interface SimulatedExperiment {
   data?: ExperimentData;
 }
 
-/** Full round-trip precision: the file is for further computation, not for reading. */
-function cell(v: number): string {
-  return Number.isFinite(v) ? String(v) : '';
-}
-
-/** A CSV field: quoted only when it holds a separator, a quote or a line break. */
-function field(text: string): string {
-  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
-
 /** Time in the log's own unit, rounded to 12 digits so that 0.007 stays 0.007 after a unit round trip. */
-function columnTime(t: number, factor: number): string {
+function columnTime(t: number, factor: number): number {
   const v = t * factor;
-  return factor === 1 ? String(v) : String(Number(v.toPrecision(12)));
+  return factor === 1 ? v : Number(v.toPrecision(12));
 }
 
 export function renderSimulationCsv(model: Model, runs: readonly SimulatedExperiment[]): string {
@@ -41,21 +32,22 @@ export function renderSimulationCsv(model: Model, runs: readonly SimulatedExperi
     ...measuredOutputs.map((o) => `${o.name}_measured`),
     ...model.states.map((s) => `${s.name}_state`),
   ];
-  const lines = [header.map(field).join(',')];
+  // Values at full round-trip precision: the file is for further computation, not for reading.
+  const csv = new CsvText(header);
   for (const { result, data } of runs) {
-    const name = field(result.experiment);
+    const name = result.experiment;
     const factor = data ? data.timeToColumnUnit : 1;
     const n = result.time.length;
     for (let i = 0; i < n; i++) {
-      const row: string[] = [name, model.isStatic && !data ? String(i) : columnTime(result.time[i], factor)];
-      for (const y of result.outputs) row.push(cell(y[i]));
+      const row: CsvCell[] = [name, model.isStatic && !data ? i : columnTime(result.time[i], factor)];
+      for (const y of result.outputs) row.push(y[i]);
       for (const { j } of measuredOutputs) {
         const logged = data?.outputs[j];
-        row.push(logged ? cell(logged[i]) : '');
+        row.push(logged ? logged[i] : '');
       }
-      for (const x of result.states) row.push(cell(x[i]));
-      lines.push(row.join(','));
+      for (const x of result.states) row.push(x[i]);
+      csv.row(row);
     }
   }
-  return lines.join('\n') + '\n';
+  return csv.toString();
 }

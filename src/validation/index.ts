@@ -2,6 +2,7 @@
 export { validateModel } from './validate-model.js';
 export type { ValidateOptions, ValidateOutcome } from './validate-model.js';
 export type { ValidationData, ValidationOutputScore, ValidationResult } from './validation-result.js';
-export { defaultValidationFolder, validationText, writeValidationFolder, VALIDATION_FILES } from './validation-report.js';
+export { validationText } from './validation-report.js';
+export { writeValidationFolder } from './validation-folder.js';
 export { renderValidationReport } from './validation-html.js';
 export { withNewLog } from './new-log-experiment.js';

@@ -1,5 +1,5 @@
 /**
- * `validate` as a library function: simulate a calibrated model (model file + estimates.yaml) on
+ * What `validate` computes (the verb, which also writes the results folder: src/verbs/validate.ts): simulate a calibrated model (model file + estimates.yaml) on
  * data it was not fitted to and score it: per output RMSE, NRMSE, R^2 and the whiteness of the
  * residuals. Nothing is fitted here.
  */
@@ -12,7 +12,7 @@ import { nearestNames } from '../data/nearest.js';
 import { compileModel } from '../model/compile/index.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
-import { readEstimates, type EstimatesFile } from '../reports/read-estimates.js';
+import { checkModelVersion, readEstimates, type EstimatesFile } from '../files/estimates-file.js';
 import { parameterVector } from '../simulation/parameters.js';
 import { parseUnit } from '../units/registry.js';
 import { simulateExperiment } from '../simulation/simulate.js';
@@ -49,54 +49,11 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
   const loaded = loadModel(path.resolve(cwd, options.modelFile), { overrides: options.overrides });
   const estimates = readEstimates(path.resolve(cwd, options.estimatesFile));
   const warnings: string[] = [];
-  if (estimates.model.sha256 !== loaded.sha256) {
-    if (!options.force) {
-      throw new UserError({
-        where: { file: options.estimatesFile, key: 'model.sha256' },
-        what: `these estimates belong to another version of the model: they were made for ${estimates.model.file || 'a model file'} with sha256 ${estimates.model.sha256 || '(none recorded)'}, but ${options.modelFile} has sha256 ${loaded.sha256}`,
-        fix: 'fit this model file again, or add --force if you changed only comments or layout',
-      });
-    }
-    warnings.push(`the estimates were made for a model file with sha256 ${estimates.model.sha256}, not this one (${loaded.sha256}); validated anyway because of --force`);
-  }
+  const mismatch = checkModelVersion(estimates, loaded, { estimatesLabel: options.estimatesFile, modelLabel: options.modelFile, force: options.force });
+  if (mismatch) warnings.push(`${mismatch.warning}; validated anyway because of --force`);
   const { model: calibrated, values } = applyEstimates(loaded, estimates, options.estimatesFile, warnings);
 
-  // Which experiments: named ones, a new log, or every validation experiment of the model file.
-  let model = calibrated;
-  let indices: number[];
-  if (options.dataTimeUnit !== undefined && !options.dataFile) {
-    throw new UserError({ where: { key: '--time-unit' }, what: '--time-unit applies to a new log given with --data only', fix: 'drop --time-unit, or give --data FILE.csv' });
-  }
-  if (options.dataTimeUnit !== undefined && !parseUnit(options.dataTimeUnit)) {
-    throw new UserError({ where: { key: '--time-unit' }, what: `"${options.dataTimeUnit}" is not a unit rigcal knows`, fix: 'e.g. --time-unit ms' });
-  }
-  if (options.dataFile && options.experiments?.length) {
-    throw new UserError({ where: { key: '--data' }, what: 'give either -e NAME or --data FILE, not both', fix: 'run validate once per choice' });
-  }
-  if (options.dataFile) {
-    const extended = withNewLog(calibrated, options.dataFile, cwd, options.dataTimeUnit);
-    model = extended.model;
-    indices = [extended.index];
-  } else if (options.experiments?.length) {
-    const names = calibrated.experiments.map((e) => e.name);
-    const problems: Problem[] = [];
-    indices = [];
-    for (const name of options.experiments) {
-      const i = names.indexOf(name);
-      if (i < 0) problems.push({ where: { file: options.modelFile, key: 'experiments' }, what: `has no experiment "${name}"`, fix: `name one of: ${nearestNames(name, names).join(', ') || names.join(', ')}` });
-      else indices.push(i);
-    }
-    if (problems.length) throw new UserError(problems);
-  } else {
-    indices = calibrated.experiments.flatMap((e, i) => (e.role === 'validation' ? [i] : []));
-    if (!indices.length) {
-      throw new UserError({
-        where: { file: options.modelFile, key: 'experiments' },
-        what: 'has no experiment with `role: validation`',
-        fix: 'name an experiment with -e NAME, or give a new log with --data FILE.csv',
-      });
-    }
-  }
+  const { model, indices } = chooseExperiments(calibrated, options, cwd);
 
   const compiled = compileModel(model);
   const series: ResidualSeries[] = [];
@@ -159,6 +116,44 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
   };
   const noise = Object.fromEntries(Object.entries(estimates.noise).map(([k, v]) => [k, { sigma: v.sigma, estimated: v.estimated }]));
   return { result, series, noise };
+}
+
+/** Which experiments to score: named ones, a new log (added to a copy of the model), or every validation experiment. */
+function chooseExperiments(calibrated: Model, options: ValidateOptions, cwd: string): { model: Model; indices: number[] } {
+  if (options.dataTimeUnit !== undefined && !options.dataFile) {
+    throw new UserError({ where: { key: '--time-unit' }, what: '--time-unit applies to a new log given with --data only', fix: 'drop --time-unit, or give --data FILE.csv' });
+  }
+  if (options.dataTimeUnit !== undefined && !parseUnit(options.dataTimeUnit)) {
+    throw new UserError({ where: { key: '--time-unit' }, what: `"${options.dataTimeUnit}" is not a unit rigcal knows`, fix: 'e.g. --time-unit ms' });
+  }
+  if (options.dataFile && options.experiments?.length) {
+    throw new UserError({ where: { key: '--data' }, what: 'give either -e NAME or --data FILE, not both', fix: 'run validate once per choice' });
+  }
+  if (options.dataFile) {
+    const extended = withNewLog(calibrated, options.dataFile, cwd, options.dataTimeUnit);
+    return { model: extended.model, indices: [extended.index] };
+  }
+  if (options.experiments?.length) {
+    const names = calibrated.experiments.map((e) => e.name);
+    const problems: Problem[] = [];
+    const indices: number[] = [];
+    for (const name of options.experiments) {
+      const i = names.indexOf(name);
+      if (i < 0) problems.push({ where: { file: options.modelFile, key: 'experiments' }, what: `has no experiment "${name}"`, fix: `name one of: ${nearestNames(name, names).join(', ') || names.join(', ')}` });
+      else indices.push(i);
+    }
+    if (problems.length) throw new UserError(problems);
+    return { model: calibrated, indices };
+  }
+  const indices = calibrated.experiments.flatMap((e, i) => (e.role === 'validation' ? [i] : []));
+  if (!indices.length) {
+    throw new UserError({
+      where: { file: options.modelFile, key: 'experiments' },
+      what: 'has no experiment with `role: validation`',
+      fix: 'name an experiment with -e NAME, or give a new log with --data FILE.csv',
+    });
+  }
+  return { model: calibrated, indices };
 }
 
 /**

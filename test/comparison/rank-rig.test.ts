@@ -7,7 +7,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/run.js';
-import { rankModels } from '../../src/comparison/rank-models.js';
+import { runRank } from '../../src/verbs/rank.js';
 import { rankJson, rankText } from '../../src/comparison/rank-report.js';
 import { modelText, normalDeviates, writeRigData } from './synthetic-rig.js';
 
@@ -37,7 +37,7 @@ describe('rank on a synthetic rig', () => {
     // What `rigcal rank no-damper.yaml right.yaml --nested [--json]` computes and prints (the command
     // is a thin layer over these calls; fitting twice per run, so the library is called once here and
     // the command line is exercised on its refusals below).
-    const outcome = rankModels(['no-damper.yaml', 'right.yaml'], { cwd: dir, nested: true });
+    const outcome = runRank({ modelFiles: ['no-damper.yaml', 'right.yaml'], cwd: dir, nested: true });
     ranking = JSON.parse(JSON.stringify(rankJson(outcome))) as RankJson;
     text = rankText(outcome);
   });

@@ -12,7 +12,7 @@ import { parse } from 'yaml';
 import { freezeModelText } from '../../src/handoff/freeze-document.js';
 import { loadModel } from '../../src/model/load/index.js';
 import type { Model } from '../../src/model/types.js';
-import type { EstimatesFile } from '../../src/reports/read-estimates.js';
+import type { EstimatesFile } from '../../src/files/estimates-file.js';
 
 const MODELS = path.resolve(__dirname, '../../models');
 const files = readdirSync(MODELS).filter((f) => f.endsWith('.yaml'));

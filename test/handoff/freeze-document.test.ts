@@ -8,7 +8,7 @@ import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parse } from 'yaml';
 import { freezeModelText } from '../../src/handoff/freeze-document.js';
-import type { EstimatesFile } from '../../src/reports/read-estimates.js';
+import type { EstimatesFile } from '../../src/files/estimates-file.js';
 import type { ExperimentSpec, Model, ParameterSpec } from '../../src/model/types.js';
 
 const MODEL_TEXT = `# Flywheel scenario of our own (test fixture).

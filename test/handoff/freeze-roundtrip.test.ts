@@ -11,10 +11,10 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/run.js';
 import { loadExperimentData } from '../../src/data/index.js';
 import { fitModel } from '../../src/estimation/fit/fit-model.js';
-import { freezeModel } from '../../src/handoff/freeze.js';
+import { runFreeze } from '../../src/verbs/freeze.js';
 import { compileModel } from '../../src/model/compile/index.js';
 import { loadModel } from '../../src/model/load/index.js';
-import { readEstimates } from '../../src/reports/read-estimates.js';
+import { readEstimates } from '../../src/files/estimates-file.js';
 import { writeResults } from '../../src/reports/write-results.js';
 import { parameterVector, simulateExperiment } from '../../src/simulation/index.js';
 import { modelText, writeRigData } from '../comparison/synthetic-rig.js';
@@ -58,7 +58,7 @@ describe('freeze on a fitted rig', () => {
     writeResults(path.join(dir, 'spring-mass-fit'), outcome, { outputs: ['x'] });
     estimatesFile = path.join(dir, 'spring-mass-fit', 'estimates.yaml');
     frozenFile = path.join(dir, 'handoff', 'v1', 'spring-mass-calibrated.yaml');
-    freezeModel({ modelFile, estimatesFile, output: frozenFile, cwd: dir });
+    runFreeze({ modelFile, estimatesFile, output: frozenFile, cwd: dir });
   });
 
   it('reproduces simulate --params on every experiment to 1e-9 relative', () => {

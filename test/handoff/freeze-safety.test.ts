@@ -7,7 +7,7 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parse } from 'yaml';
-import { prepareFreeze } from '../../src/handoff/freeze.js';
+import { prepareFreeze } from '../../src/verbs/freeze.js';
 import { modelText, writeRigData } from '../comparison/synthetic-rig.js';
 
 describe('freeze with a hostile estimates file', () => {

@@ -8,7 +8,7 @@ import path from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
 import { PARAMETER_TABLE_COLUMNS, parameterTable, parameterTableCsv, parameterTableJson } from '../../src/handoff/parameter-table.js';
-import { readEstimates } from '../../src/reports/read-estimates.js';
+import { readEstimates } from '../../src/files/estimates-file.js';
 
 const K = 0.052103847561029384;
 const W = -3.141592653589793e-7;

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/errors.js';
-import { readEstimates } from '../../src/reports/read-estimates.js';
+import { readEstimates } from '../../src/files/estimates-file.js';
 import { renderEstimatesYaml } from '../../src/reports/estimates-yaml.js';
 import { renderResidualsCsv } from '../../src/reports/residuals-csv.js';
 import { formatNumber, renderFitSummary } from '../../src/reports/summary-table.js';
@@ -153,7 +153,7 @@ describe('summary table', () => {
 
 describe('default results folder', () => {
   it('is <model name>-fit below the working folder and never leaves it', async () => {
-    const { defaultResultsFolder } = await import('../../src/reports/write-results.js');
+    const { defaultResultsFolder } = await import('../../src/files/results-folder.js');
     expect(defaultResultsFolder('/work/x', 'rig')).toBe('/work/x/rig-fit');
     expect(() => defaultResultsFolder('/work/x', '../evil')).toThrow(UserError);
     expect(() => defaultResultsFolder('/work/x', 'a/b')).toThrow(UserError);

@@ -4,6 +4,7 @@
  * model declares and what the logs hold.
  */
 import type { Command } from 'commander';
+import { UserError } from '../../errors.js';
 import type { CommandContext } from '../io.js';
 
 export function register(program: Command, ctx: CommandContext): void {
@@ -19,5 +20,16 @@ export function register(program: Command, ctx: CommandContext): void {
       'Example:',
       '  rigcal check models/flywheel.yaml',
     ].join('\n'))
-    .action(ctx.action(async (modelArg: string) => (await import('./check-run.js')).runCheck(modelArg, ctx))); // loaded when the command runs
+    .action(ctx.action(async (modelArg: string) => {
+      // Loaded when the command runs, not when the CLI starts (DEVELOPERS.md, "How to add a command").
+      const [{ runCheck }, { fitReadinessNotes, renderCheckSummary }] = await Promise.all([import('../../verbs/check.js'), import('../../reports/check-summary.js')]);
+      const { io } = ctx;
+      const { model, data, problems } = runCheck({ modelFile: modelArg, cwd: io.cwd });
+      io.stdout(renderCheckSummary({ model, data }));
+      const notes = fitReadinessNotes(model, data);
+      if (notes.length) io.stdout(`\nnotes\n${notes.map((n) => `  - ${n}`).join('\n')}\n`);
+      if (problems.length) throw new UserError(problems);
+      io.stdout('\nno problems found\n');
+      return 0;
+    }));
 }

@@ -5,8 +5,7 @@
  * --json) and nothing else.
  */
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
-import { UserError } from '../../errors.js';
+import { integerOption } from '../options.js';
 import type { FitProgress } from '../../estimation/fit/fit-options.js';
 import type { CommandContext } from '../io.js';
 
@@ -18,15 +17,6 @@ interface FitCliOptions {
   json?: boolean;
   quiet?: boolean;
   set: string[];
-}
-
-function positiveInteger(text: string | undefined, option: string, min: number): number | undefined {
-  if (text === undefined) return undefined;
-  const n = Number(text);
-  if (!Number.isInteger(n) || n < min) {
-    throw new UserError({ where: { key: option }, what: `${option} takes a whole number of at least ${min}, got "${text}"`, fix: `e.g. ${option} ${Math.max(min, 8)}` });
-  }
-  return n;
 }
 
 function collect(value: string, previous: string[]): string[] {
@@ -53,26 +43,19 @@ export function register(program: Command, ctx: CommandContext): void {
     .addHelpText('after', '\nExample:\n  rigcal fit models/flywheel.yaml --starts 8 --seed 1 -o flywheel-fit\n')
     .action(
       ctx.action(async (modelFile: string, opts: FitCliOptions) => {
-        // The pipeline and its writers load when the command runs, not when the CLI starts (every
-        // command registers at start-up; `rigcal --help` or another command need none of this).
-        const [{ fitModel }, { loadModel, parseOverrides }, { renderFitJson }, { renderFitSummary }, { defaultResultsFolder, assertReplaceable, reportRenderer, writeResults }] = await Promise.all([
-          import('../../estimation/fit/fit-model.js'),
+        // The verb and the summary load when the command runs, not when the CLI starts (every command
+        // registers at start-up; `rigcal --help` or another command need none of this).
+        const [{ runFit }, { parseOverrides }, { renderFitJson }, { renderFitSummary }] = await Promise.all([
+          import('../../verbs/fit.js'),
           import('../../model/load/index.js'),
           import('../../reports/fit-json.js'),
           import('../../reports/summary-table.js'),
-          import('../../reports/write-results.js'),
         ]);
         const io = ctx.io;
-        const starts = positiveInteger(opts.starts, '--starts', 1);
-        const seed = positiveInteger(opts.seed, '--seed', 0);
-        const maxIterations = positiveInteger(opts.maxIterations, '--max-iterations', 1);
+        const starts = integerOption(opts.starts, '--starts', 1);
+        const seed = integerOption(opts.seed, '--seed', 0);
+        const maxIterations = integerOption(opts.maxIterations, '--max-iterations', 1);
         const overrides = parseOverrides(opts.set ?? []);
-        const model = loadModel(resolve(io.cwd, modelFile), { overrides });
-        // Provenance names the model file as the user gave it, not as resolved here.
-        model.fileAsGiven = modelFile;
-        const folder = opts.output ? resolve(io.cwd, opts.output) : defaultResultsFolder(io.cwd, model.name);
-        // Refuse a foreign folder before spending time on the fit.
-        assertReplaceable(folder);
         const showProgress = io.stderrIsTTY && !opts.quiet;
         let lastLine = 0;
         const onProgress = showProgress
@@ -82,11 +65,10 @@ export function register(program: Command, ctx: CommandContext): void {
               lastLine = line.length;
             }
           : undefined;
-        const outcome = fitModel(model, { starts, seed, maxIterations, onProgress });
+        const { outcome, folder } = await runFit({ modelFile, cwd: io.cwd, output: opts.output, overrides, starts, seed, maxIterations, onProgress });
         if (showProgress && lastLine) io.stderr('\n');
-        const written = await writeResults(folder, outcome, { outputs: model.outputs.map((o) => o.name), renderHtml: reportRenderer });
         if (opts.json) io.stdout(renderFitJson(outcome.result));
-        else io.stdout(renderFitSummary(outcome.result, written));
+        else io.stdout(renderFitSummary(outcome.result, folder));
         return outcome.result.status === 'failed' ? 1 : 0;
       }),
     );

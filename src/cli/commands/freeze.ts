@@ -1,7 +1,7 @@
 /** The `freeze` command: hand calibrated parameters to a simulation team. */
 import { Option, type Command } from 'commander';
 import { UserError } from '../../errors.js';
-import type { FreezeFormat } from '../../handoff/freeze.js';
+import type { FreezeFormat } from '../../verbs/freeze.js';
 import type { CommandContext } from '../io.js';
 
 interface FreezeCliOptions {
@@ -37,8 +37,8 @@ experiment's \`set\`; relative data paths are rewritten so that they stay valid 
         if (!opts.params || !opts.output) {
           throw new UserError({ where: {}, what: 'freeze needs --params and -o', fix: 'see rigcal freeze --help' });
         }
-        const { freezeModel } = await import('../../handoff/freeze.js'); // loaded when the command runs
-        const outcome = freezeModel({
+        const { runFreeze } = await import('../../verbs/freeze.js'); // loaded when the command runs
+        const outcome = runFreeze({
           modelFile: model,
           estimatesFile: opts.params,
           output: opts.output,

@@ -1,6 +1,6 @@
 /** The `rank` command: fit candidate models of one rig on the same data and rank them. */
 import type { Command } from 'commander';
-import { UserError } from '../../errors.js';
+import { integerOption } from '../options.js';
 import type { CommandContext } from '../io.js';
 
 interface RankCliOptions {
@@ -36,12 +36,13 @@ AICc and BIC count the free parameters plus the estimated noise levels.`,
     .action(
       ctx.action(async (files: string[], opts: RankCliOptions) => {
         // Loaded when the command runs: start-up (and every other command) does without them.
-        const [{ rankModels }, { rankJson, rankText }] = await Promise.all([import('../../comparison/rank-models.js'), import('../../comparison/rank-report.js')]);
-        const starts = optionalInteger(opts.starts, '--starts', 1);
-        const seed = optionalInteger(opts.seed, '--seed', 0);
-        const maxIterations = optionalInteger(opts.maxIterations, '--max-iterations', 1);
+        const [{ runRank }, { rankJson, rankText }, { toJson }] = await Promise.all([import('../../verbs/rank.js'), import('../../comparison/rank-report.js'), import('../../files/json.js')]);
+        const starts = integerOption(opts.starts, '--starts', 1);
+        const seed = integerOption(opts.seed, '--seed', 0);
+        const maxIterations = integerOption(opts.maxIterations, '--max-iterations', 1);
         const showProgress = ctx.io.stderrIsTTY && !opts.quiet;
-        const outcome = rankModels(files, {
+        const outcome = runRank({
+          modelFiles: files,
           nested: opts.nested,
           starts,
           seed,
@@ -49,17 +50,8 @@ AICc and BIC count the free parameters plus the estimated noise levels.`,
           cwd: ctx.io.cwd,
           onModel: showProgress ? (name, i, n) => ctx.io.stderr(`fitting ${name} (${i + 1} of ${n})\n`) : undefined,
         });
-        ctx.io.stdout(opts.json ? `${JSON.stringify(rankJson(outcome), null, 2)}\n` : rankText(outcome));
+        ctx.io.stdout(opts.json ? toJson(rankJson(outcome)) : rankText(outcome));
         return outcome.failures.length ? 1 : 0;
       }),
     );
-}
-
-function optionalInteger(text: string | undefined, option: string, min: number): number | undefined {
-  if (text === undefined) return undefined;
-  const v = Number(text);
-  if (!Number.isInteger(v) || v < min) {
-    throw new UserError({ where: { key: option }, what: `${option} must be an integer of at least ${min}, not "${text}"`, fix: `e.g. ${option} ${Math.max(min, 5)}` });
-  }
-  return v;
 }

@@ -1,5 +1,4 @@
 /** `rigcal report DIR`: rebuild report.html in a results folder of `fit` from its fit.json and residuals.csv. */
-import { isAbsolute, resolve } from 'node:path';
 import type { Command } from 'commander';
 import type { CommandContext } from '../io.js';
 
@@ -17,9 +16,8 @@ export function register(program: Command, ctx: CommandContext): void {
       '  rigcal report flywheel-fit',
     ].join('\n'))
     .action(ctx.action(async (dirArg: string) => {
-      const { writeReportForFolder } = await import('../../reports/html/write-report.js'); // loaded when the command runs
-      const dir = isAbsolute(dirArg) ? dirArg : resolve(ctx.io.cwd, dirArg);
-      const written = await writeReportForFolder(dir);
+      const { runReport } = await import('../../verbs/report.js'); // loaded when the command runs
+      const written = await runReport({ folder: dirArg, cwd: ctx.io.cwd });
       ctx.io.stdout(`wrote ${written.file} (${(written.bytes / 1024).toFixed(0)} KiB in ${written.seconds.toFixed(2)} s)\n`);
       return 0;
     }));

@@ -1,15 +1,13 @@
 /**
  * `rigcal simulate MODEL`: integrates the model for one experiment (-e) or all of them, driven by
  * each log's inputs at its time stamps, or over a given span without data (--duration); writes the
- * CSV of cli-and-results.md and prints the fit quality per output where data exist.
- *
- * Parameter values: declared (fixed value, free start), then the experiment's `set`, then
- * `--params estimates.yaml` (estimated values only), then `--set` (wins over everything).
+ * CSV of cli-and-results.md and prints the fit quality per output where data exist (the work:
+ * src/verbs/simulate.ts).
  */
 import type { Command } from 'commander';
 import type { CommandContext } from '../io.js';
 
-export interface SimulateOptions {
+interface SimulateCliOptions {
   experiment?: string[];
   set?: string[];
   params?: string;
@@ -45,8 +43,34 @@ export function register(program: Command, ctx: CommandContext): void {
       '  rigcal simulate models/flywheel.yaml --params flywheel-fit/estimates.yaml --set Tc=0.01 -o sim.csv',
       '  rigcal simulate models/heated-block.yaml --duration 3600 --interval 10 --input P=40 --input Ta=295',
     ].join('\n'))
-    .action(ctx.action(async (modelArg: string, options: SimulateOptions) => {
-      const { runSimulate } = await import('./simulate-run.js'); // loaded when the command runs
-      return runSimulate(modelArg, { ...options, experiment: options.experiment ?? [], set: options.set ?? [], input: options.input ?? [] }, ctx);
+    .action(ctx.action(async (modelArg: string, options: SimulateCliOptions) => {
+      // Loaded when the command runs, not when the CLI starts (DEVELOPERS.md, "How to add a command").
+      const [{ runSimulate }, { parseOverrides }, { renderQuality }] = await Promise.all([
+        import('../../verbs/simulate.js'),
+        import('../../model/load/index.js'),
+        import('../../reports/simulation-quality.js'),
+      ]);
+      const { io } = ctx;
+      const result = runSimulate({
+        modelFile: modelArg,
+        cwd: io.cwd,
+        experiments: options.experiment ?? [],
+        overrides: parseOverrides(options.set ?? []),
+        estimatesFile: options.params,
+        output: options.output,
+        duration: options.duration,
+        interval: options.interval,
+        inputs: options.input ?? [],
+        onNote: (note) => io.stderr(`rigcal: note: ${note}\n`),
+      });
+      const quality = renderQuality(result.model, result.runs);
+      if (result.written) {
+        io.stdout(`wrote ${options.output} (${result.rows} rows)\n`);
+        if (quality) io.stdout(quality);
+      } else {
+        io.stdout(result.csv);
+        if (quality) io.stderr(quality);
+      }
+      return 0;
     }));
 }

@@ -39,13 +39,13 @@ Example:
     .action(
       ctx.action(async (modelFile: string, opts: ValidateCliOptions) => {
         // Loaded when the command runs: start-up (and every other command) does without them.
-        const [{ parseOverrides }, { defaultValidationFolder, validationText, writeValidationFolder }, { validateModel }, { renderValidationReport }] = await Promise.all([
+        const [{ parseOverrides }, { validationText }, { runValidate }, { toJson }] = await Promise.all([
           import('../../model/load/index.js'),
           import('../../validation/validation-report.js'),
-          import('../../validation/validate-model.js'),
-          import('../../validation/validation-html.js'),
+          import('../../verbs/validate.js'),
+          import('../../files/json.js'),
         ]);
-        const outcome = validateModel({
+        const { result, folder } = await runValidate({
           modelFile,
           estimatesFile: opts.params,
           experiments: opts.experiment,
@@ -54,13 +54,10 @@ Example:
           overrides: opts.set?.length ? parseOverrides(opts.set) : undefined,
           force: opts.force,
           cwd: ctx.io.cwd,
+          output: opts.output,
         });
-        const folder = opts.output ? path.resolve(ctx.io.cwd, opts.output) : defaultValidationFolder(ctx.io.cwd, outcome.result.model.name);
-        const report = await renderValidationReport(outcome.result, outcome.series, outcome.noise);
-        const outputs = outcome.result.outputs.map((o) => o.output).filter((o, i, a) => a.indexOf(o) === i);
-        const written = writeValidationFolder(folder, outcome.result, outcome.series, outputs, report);
-        if (opts.json) ctx.io.stdout(`${JSON.stringify(outcome.result, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2)}\n`);
-        else ctx.io.stdout(`${validationText(outcome.result)}results: ${opts.output ?? (path.relative(ctx.io.cwd, written) || '.')}\n`);
+        if (opts.json) ctx.io.stdout(toJson(result));
+        else ctx.io.stdout(`${validationText(result)}results: ${opts.output ?? (path.relative(ctx.io.cwd, folder) || '.')}\n`);
         return 0;
       }),
     );

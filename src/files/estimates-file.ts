@@ -1,11 +1,13 @@
 /**
- * Reads estimates.yaml (written by `fit`) for `simulate --params`, `validate` and `freeze`.
+ * Reads estimates.yaml (written by `fit`) for `simulate --params`, `validate` and `freeze`, and
+ * decides whether it belongs to the model file at hand (the one policy, `checkModelVersion`).
  * The file is input from the user's disk: it is checked key by key and every problem names the file,
  * the line and the key.
  */
 import { readFileSync, statSync } from 'node:fs';
 import { LineCounter, isMap, isPair, isScalar, parseDocument, type Node } from 'yaml';
 import { ProblemList, UserError, type SourceLocation } from '../errors.js';
+import type { Model } from '../model/types.js';
 
 /** Larger than any real estimates file by far; refuses a wrong file before parsing it. */
 const MAX_BYTES = 4 * 1024 * 1024;
@@ -127,5 +129,53 @@ export function readEstimates(file: string): EstimatesFile {
     values,
     parameters,
     noise,
+  };
+}
+
+/** A mismatch let through: the model file's SHA-256 and the one the estimates record (shown safely). */
+export interface ModelVersionMismatch {
+  model: string;
+  estimates: string;
+  /** The same in words, for the run's warnings. */
+  warning: string;
+}
+
+/**
+ * The recorded hash as it may be shown: the estimates file may come from anywhere, and this text
+ * goes into messages and comments.
+ */
+function shownHash(recorded: string): string {
+  if (!recorded) return '(none recorded)';
+  return /^[0-9a-f]{64}$/i.test(recorded) ? recorded : '(not a SHA-256)';
+}
+
+/**
+ * Whether the estimates belong to this version of the model file: only when the SHA-256 they record
+ * is the model file's own (a missing or malformed record is a mismatch). A mismatch is refused
+ * (UserError, exit 2) unless the run accepts it (`force`); an accepted one is returned, to be
+ * reported as a warning.
+ *
+ * `estimatesLabel` and `modelLabel` name the files as the user gave them.
+ */
+export function checkModelVersion(
+  estimates: EstimatesFile,
+  model: Model,
+  options: { estimatesLabel: string; modelLabel: string; force?: boolean },
+): ModelVersionMismatch | undefined {
+  if (estimates.model.sha256 === model.sha256) return undefined;
+  const recorded = shownHash(estimates.model.sha256);
+  if (!options.force) {
+    throw new UserError({
+      where: { file: options.estimatesLabel, key: 'model.sha256' },
+      what:
+        `these estimates belong to another version of the model: they were made for ${estimates.model.file || 'a model file'} with sha256 ` +
+        `${recorded}, but ${options.modelLabel} has sha256 ${model.sha256}`,
+      fix: 'fit this model file again and use the new estimates.yaml; if you changed only comments or layout, add --force',
+    });
+  }
+  return {
+    model: model.sha256,
+    estimates: recorded,
+    warning: `${options.estimatesLabel} was fitted to a different version of ${options.modelLabel}: the estimates were made for a model file with sha256 ${recorded}, not this one (${model.sha256})`,
   };
 }

@@ -1,18 +1,20 @@
 /**
- * `rank` as a library function: load the candidate model files, make sure they describe the same
+ * `rigcal rank` as a library verb: load the candidate model files, make sure they describe the same
  * rig data, fit each one with the same options, and rank the fits.
  */
 import path from 'node:path';
+import { rankFits, type CandidateFit, type RankResult } from '../comparison/rank-fits.js';
+import { checkSameData } from '../comparison/same-data.js';
 import { RunFailure } from '../errors.js';
 import type { FitOptions } from '../estimation/fit/fit-options.js';
 import type { CompletedFit } from '../estimation/fit/fit-result.js';
 import { fitModel } from '../estimation/fit/fit-model.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
-import { rankFits, type CandidateFit, type RankResult } from './rank-fits.js';
-import { checkSameData } from './same-data.js';
 
 export interface RankOptions {
+  /** Two or more candidate model files of one rig (paths as the user gave them, relative to `cwd`). */
+  modelFiles: readonly string[];
   nested?: boolean;
   starts?: number;
   seed?: number;
@@ -28,7 +30,8 @@ export interface RankOutcome extends RankResult {
   failures: { name: string; file: string; message: string }[];
 }
 
-export function rankModels(files: readonly string[], options: RankOptions = {}): RankOutcome {
+export function runRank(options: RankOptions): RankOutcome {
+  const files = options.modelFiles;
   const cwd = options.cwd ?? process.cwd();
   // Messages name each file as the user typed it.
   const models = files.map((f) => ({ ...loadModel(path.resolve(cwd, f)), fileAsGiven: f }));
