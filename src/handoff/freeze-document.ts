@@ -18,6 +18,7 @@ import { Pair, Scalar, YAMLMap, YAMLSeq, isMap, isScalar, isSeq, parseDocument, 
 import { UserError, type Problem } from '../errors.js';
 import type { FreeParameterSpec, Model } from '../model/types.js';
 import type { EstimateEntry, EstimatesFile } from '../files/estimates-file.js';
+import type { FreezePlan } from './freeze-plan.js';
 import { spliceFreeze } from './freeze-splice.js';
 
 export interface FreezeDocumentOptions {
@@ -44,17 +45,6 @@ export interface FreezeSummary {
 
 /** Keys of a free parameter that a fixed one must not carry. */
 const FREE_ONLY_KEYS = ['free', 'start', 'scale', 'per_experiment'];
-
-/** What freeze changes, decided once and applied either to the source text or to the Document. */
-export interface FreezePlan {
-  /** Parameters whose entry becomes `fixed: value`, with the comment lines to put above them. */
-  params: { name: string; value: number; unit: string; comment: string[] }[];
-  /** Per experiment: values to add to its `set`. */
-  sets: { experiment: string; entries: [string, number][] }[];
-  /** Experiments whose data path changes. */
-  paths: { experiment: string; file: string }[];
-  header: string[];
-}
 
 export function freezeModelText(
   sourceText: string,

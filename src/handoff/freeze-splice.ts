@@ -9,7 +9,7 @@
  * spliced text reads back exactly as the Document edit does before using it.
  */
 import { isMap, isScalar, isSeq, parseDocument, type Pair, type YAMLMap } from 'yaml';
-import type { FreezePlan } from './freeze-document.js';
+import type { FreezePlan } from './freeze-plan.js';
 
 interface Edit {
   start: number;
