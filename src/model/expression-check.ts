@@ -18,7 +18,7 @@
 import type { MathNode } from 'mathjs';
 import { parse } from '../util/mathjs.js';
 import type { ProblemList, SourceLocation } from '../errors.js';
-import { LIMITS } from './load/limits.js';
+import { LIMITS } from './limits.js';
 import { orList, suggestion } from './load/nearest.js';
 import type { Expr } from './types.js';
 

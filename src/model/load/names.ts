@@ -3,7 +3,7 @@
  * experiment and model names, which also end up in file and folder names.
  */
 import { ALLOWED_FUNCTIONS, NAME_PATTERN, PARSER_WORDS } from '../expression-check.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 
 export { NAME_PATTERN, PARSER_WORDS };
 
