@@ -132,7 +132,7 @@ export const FUNCTIONS: Readonly<Record<FunctionName, FunctionEntry>> = {
   abs: {
     arity: [1, 1], js: 'Math.abs', evaluate: Math.abs, units: { args: 'agree', result: 'magnitude' },
     derivative: (b, { args, d }) => b.mul(b.call('sign', [args[0]!]), d(args[0]!)),
-    doc: 'absolute value, in the unit of its argument; d abs(x) = sign(x) dx (0 at x = 0)',
+    doc: 'absolute value, in the unit of its argument; `d abs(x) = sign(x) dx` (0 at x = 0)',
   },
   sign: {
     arity: [1, 1], js: 'Math.sign', evaluate: Math.sign, units: { args: 'agree', result: 'plain' },
@@ -144,12 +144,12 @@ export const FUNCTIONS: Readonly<Record<FunctionName, FunctionEntry>> = {
     // (x dy - y dx) / (x^2 + y^2) for atan2(y, x).
     derivative: (b, { args: [y, x], d }) =>
       b.div(b.sub(b.mul(x!, d(y!)), b.mul(y!, d(x!))), b.add(b.mul(x!, x!), b.mul(y!, y!))),
-    doc: 'atan2(y, x): the angle of the point (x, y) in rad, in all four quadrants; y and x in one unit',
+    doc: '`atan2(y, x)`: the angle of the point (x, y) in rad, in all four quadrants; y and x in one unit',
   },
   pow: {
     arity: [2, 2], js: 'Math.pow', evaluate: Math.pow, units: { args: 'power' }, operator: 'pow',
     derivative: powerSlope,
-    doc: 'pow(x, y) is x ^ y; a base with a unit needs a constant exponent',
+    doc: '`pow(x, y)` is `x ^ y`; a base with a unit needs a constant exponent',
   },
   min: {
     arity: [2, Infinity], js: 'Math.min', evaluate: Math.min, units: { args: 'agree', result: 'same' },
@@ -169,7 +169,7 @@ export const FUNCTIONS: Readonly<Record<FunctionName, FunctionEntry>> = {
       for (const a of args) num = b.add(num, b.mul(a, d(a)));
       return b.cond(b.compare('ne', self, b.ZERO), b.div(num, self), b.ZERO);
     },
-    doc: 'sqrt(x^2 + y^2 + ...) without overflow, all arguments in one unit; derivative 0 at the origin',
+    doc: '`sqrt(x^2 + y^2 + ...)` without overflow, all arguments in one unit; derivative 0 at the origin',
   },
 };
 
