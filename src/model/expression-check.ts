@@ -8,7 +8,8 @@
  *    character where it starts, and caps length and parenthesis depth before the (recursive)
  *    mathjs parser sees the text;
  * 2. mathjs `parse` (syntax only: it builds nodes, it runs nothing);
- * 3. a walk of the tree that accepts only the node types, operators and functions listed here
+ * 3. a walk of the tree that accepts only the node types and operators listed here and the
+ *    functions of the registry (src/model/functions/registry.ts)
  *    (the scan should already have refused the rest; this walk is the guarantee).
  *
  * Implicit multiplication (`2x`, `2 x`, `a b`, `(a)(b)`) is refused: a missing `*` is more often a
@@ -18,24 +19,16 @@
 import type { MathNode } from 'mathjs';
 import { parse } from '../util/mathjs.js';
 import type { ProblemList, SourceLocation } from '../errors.js';
-import { LIMITS } from './load/limits.js';
+import { FUNCTIONS, FUNCTION_NAMES, isFunctionName } from './functions/registry.js';
+import { LIMITS } from './limits.js';
 import { orList, suggestion } from './load/nearest.js';
 import type { Expr } from './types.js';
 
 /** Letters, digits and `_`, starting with a letter (model-format.md, Names). */
 export const NAME_PATTERN = /^[A-Za-z][A-Za-z0-9_]*$/;
 
-/** The allowed functions and how many arguments each takes ([min, max]). */
-export const FUNCTION_ARITY: ReadonlyMap<string, readonly [number, number]> = new Map<string, readonly [number, number]>([
-  ...['sin', 'cos', 'tan', 'asin', 'acos', 'atan', 'sinh', 'cosh', 'tanh', 'exp', 'log', 'log10', 'sqrt', 'abs', 'sign']
-    .map((f): [string, readonly [number, number]] => [f, [1, 1]]),
-  ['atan2', [2, 2]],
-  ['pow', [2, 2]],
-  ['min', [2, Infinity]],
-  ['max', [2, Infinity]],
-  ['hypot', [2, Infinity]],
-]);
-export const ALLOWED_FUNCTIONS: ReadonlySet<string> = new Set(FUNCTION_ARITY.keys());
+/** The registry's function names, as a set for the scan. */
+const ALLOWED_FUNCTIONS: ReadonlySet<string> = new Set(FUNCTION_NAMES);
 
 /** mathjs operator functions we accept, with their arity. */
 const ALLOWED_OPERATORS: ReadonlyMap<string, number> = new Map([
@@ -397,14 +390,14 @@ function checkTree(node: MathNode, depth: number, calls: Call[], cursor: Map<str
     case 'FunctionNode': {
       const fnNode = n.fn as MathNode & { name?: string };
       const args = n.args as MathNode[];
-      if (fnNode.type !== 'SymbolNode' || !fnNode.name || !FUNCTION_ARITY.has(fnNode.name)) {
+      if (fnNode.type !== 'SymbolNode' || !fnNode.name || !isFunctionName(fnNode.name)) {
         return { what: 'this kind of function call is not allowed', fix: `call one of the allowed functions by name: ${[...ALLOWED_FUNCTIONS].join(' ')}` };
       }
       const name = fnNode.name;
       const k = cursor.get(name) ?? 0;
       cursor.set(name, k + 1);
       const index = calls.filter((c) => c.name === name)[k]?.index;
-      const [min, max] = FUNCTION_ARITY.get(name)!;
+      const [min, max] = FUNCTIONS[name].arity;
       if (args.length < min || args.length > max) {
         const want = min === max ? `${min}` : max === Infinity ? `${min} or more` : `${min} to ${max}`;
         return {

@@ -14,6 +14,7 @@
  */
 import type { MathNode } from 'mathjs';
 import type { ProblemList } from '../errors.js';
+import { FUNCTIONS, isFunctionName } from '../model/functions/registry.js';
 import type { Expr, Model } from '../model/types.js';
 import { dimensionOf, hasOffset, parseUnit, siScale, unitMath } from './registry.js';
 
@@ -111,7 +112,6 @@ export type UnitEnv = (name: string) => Quantity | undefined;
 /** Reports one problem inside an expression. */
 export type Reporter = (what: string, fix: string) => void;
 
-const PLAIN_ARGUMENT = new Set(['sin', 'cos', 'tan', 'asin', 'acos', 'atan', 'sinh', 'cosh', 'tanh', 'exp', 'log', 'log10']);
 const SAME_UNIT_OPS: Record<string, string> = {
   add: '+', subtract: '-', smaller: '<', smallerEq: '<=', larger: '>', largerEq: '>=', equal: '==', unequal: '!=',
 };
@@ -216,44 +216,40 @@ function inferPower(baseNode: MathNode, expNode: MathNode, env: UnitEnv, report:
   };
 }
 
+/** The unit of a function call, by the unit rule of the function's registry entry. */
 function inferFunction(n: N, env: UnitEnv, report: Reporter): Quantity | undefined {
   const name = String((n.fn as N).name);
   const args = n.args as MathNode[];
-  if (name === 'pow') return inferPower(args[0], args[1], env, report);
+  const rule = isFunctionName(name) ? FUNCTIONS[name].units : undefined;
+  if (rule?.args === 'power') return inferPower(args[0], args[1], env, report);
   const qs = args.map((a) => inferQuantity(a, env, report));
-  if (PLAIN_ARGUMENT.has(name)) {
+  if (!rule) return undefined;
+  if (rule.args === 'plain') {
     const q = qs[0];
     if (q && !isPlain(q)) {
       const angle = q.dims.every((p) => Math.abs(p) < TOL);
-      report(`the argument of ${name}, ${args[0].toString()}, must be a plain number${['sin', 'cos', 'tan'].includes(name) ? ' or an angle in rad' : ''}, but its unit is ${describeQuantity(q)}`,
+      report(`the argument of ${name}, ${args[0].toString()}, must be a plain number${rule.angle ? ' or an angle in rad' : ''}, but its unit is ${describeQuantity(q)}`,
         angle ? 'declare angles in rad (convert logged degrees with column_unit: deg)' : 'divide the argument by a reference quantity of the same unit');
     }
     return DIMENSIONLESS;
   }
   if (qs.some((q) => !q)) return undefined;
   const known = qs as Quantity[];
-  switch (name) {
-    case 'abs':
-      return { ...known[0], offsetUnit: undefined };
-    case 'sign':
+  let acc: Quantity | undefined = known[0];
+  for (let i = 1; i < known.length && acc; i++) {
+    acc = sameUnit(acc, known[i], args[0], args[i], `the arguments of ${name}`, report);
+  }
+  if (!acc) return undefined;
+  switch (rule.result) {
+    case 'plain':
       return DIMENSIONLESS;
-    case 'sqrt':
-      if (known[0].zero) return known[0];
-      return { dims: known[0].dims.map((p) => p / 2), scale: Math.sqrt(known[0].scale), text: `(${known[0].text})^0.5` };
-    case 'atan2':
-    case 'min':
-    case 'max':
-    case 'hypot': {
-      let acc: Quantity | undefined = known[0];
-      for (let i = 1; i < known.length && acc; i++) {
-        acc = sameUnit(acc, known[i], args[0], args[i], `the arguments of ${name}`, report);
-      }
-      if (!acc) return undefined;
-      if (name === 'atan2') return DIMENSIONLESS;
-      return name === 'hypot' ? { ...acc, offsetUnit: undefined } : acc;
-    }
-    default:
-      return undefined;
+    case 'same':
+      return acc;
+    case 'magnitude':
+      return { ...acc, offsetUnit: undefined };
+    case 'root':
+      if (acc.zero) return acc;
+      return { dims: acc.dims.map((p) => p / 2), scale: Math.sqrt(acc.scale), text: `(${acc.text})^0.5` };
   }
 }
 

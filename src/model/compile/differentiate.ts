@@ -2,16 +2,12 @@
  * Partial derivatives of compiler expressions.
  *
  * Smooth parts are differentiated by mathjs `derivative` (as numerics.md asks); the constructs it
- * lacks or gets wrong for our purpose use our own rules (model-format.md, Expressions):
- *   abs(a)      -> sign(a) * da          (mathjs writes abs(a)/a: NaN at a = 0)
- *   sign(a)     -> 0                     (mathjs has no rule)
- *   min, max    -> derivative of the selected argument (first one on ties)
+ * lacks or gets wrong for our purpose use our own rules (model-format.md, Expressions). A
+ * function's rule is its entry's in the registry (src/model/functions/registry.ts: abs, sign,
+ * min, max, atan2, hypot, and pow, which is also the rule of the operator a ^ b when b is not a
+ * number); the rules of the other constructs are here:
  *   c ? a : b   -> c ? da : db           (the taken branch; mathjs has no rule)
  *   comparisons -> 0
- *   atan2(y, x) -> (x dy - y dx) / (x^2 + y^2)
- *   hypot(a...) -> sum(a_i da_i) / hypot(a...), 0 where hypot is 0 (like d abs at 0)
- *   a ^ b, b not a number -> b a^(b-1) da + a^b log(a) db, with the second term 0 where a = 0
- *               (mathjs writes a^b (da b/a + db log a), which is NaN at a = 0 even when db = 0)
  *
  * Each expression is differentiated as a whole by mathjs with every non-smooth or shared
  * subexpression standing in as a placeholder symbol, and the chain rule goes through the
@@ -20,6 +16,7 @@
  */
 import type { MathNode } from 'mathjs';
 import { ConstantNode, FunctionNode, OperatorNode, SymbolNode, derivative } from '../../util/mathjs.js';
+import { FUNCTIONS, type DerivativeRule, type FunctionName } from '../functions/registry.js';
 import { fromMathjs } from './from-mathjs.js';
 import type { ExprPool } from './ir.js';
 
@@ -31,10 +28,14 @@ const MATHJS_OPERATOR = {
   pow: ['^', 'pow'],
 } as const;
 
-/** Functions that mathjs differentiates the way we want. */
-const SMOOTH_FUNCTIONS = new Set(['sin', 'cos', 'tan', 'asin', 'acos', 'atan', 'sinh', 'cosh', 'tanh', 'exp', 'log', 'log10', 'sqrt']);
-
 const NAME_PATTERN = /^[hs](\d+)$/;
+
+/** The registry's own derivative rule of a function (not one left to mathjs). */
+function ownRule(name: FunctionName): Exclude<DerivativeRule, 'mathjs'> {
+  const rule = FUNCTIONS[name].derivative;
+  if (rule === 'mathjs') throw new Error(`internal: ${name} is differentiated by mathjs`);
+  return rule;
+}
 
 export class Differentiator {
   private readonly depsMemo = new Map<number, ReadonlySet<number>>();
@@ -106,7 +107,7 @@ export class Differentiator {
     const n = this.pool.node(id);
     switch (n.op) {
       case 'fn':
-        return !SMOOTH_FUNCTIONS.has(n.name);
+        return FUNCTIONS[n.name].derivative !== 'mathjs';
       case 'pow':
         return this.pool.numberOf(n.args[1]) === undefined;
       case 'cond':
@@ -129,47 +130,10 @@ export class Differentiator {
     switch (n.op) {
       case 'cond':
         return pool.cond(n.args[0], d(n.args[1]), d(n.args[2]));
-      case 'pow': {
-        const [a, b] = n.args;
-        const viaBase = pool.mul(pool.mul(b, pool.pow(a, pool.sub(b, pool.ONE))), d(a));
-        const db = d(b);
-        if (db === pool.ZERO) return viaBase;
-        const logTerm = pool.cond(pool.compare('eq', a, pool.ZERO), pool.ZERO, pool.mul(e, pool.call('log', [a])));
-        return pool.add(viaBase, pool.mul(logTerm, db));
-      }
-      case 'fn': {
-        const args = n.args;
-        switch (n.name) {
-          case 'abs':
-            return pool.mul(pool.call('sign', [args[0]!]), d(args[0]!));
-          case 'sign':
-            return pool.ZERO;
-          case 'min':
-          case 'max': {
-            const pick = n.name === 'min' ? 'le' : 'ge';
-            let value = args[0]!;
-            let slope = d(value);
-            for (let i = 1; i < args.length; i++) {
-              const next = args[i]!;
-              slope = pool.cond(pool.compare(pick, value, next), slope, d(next));
-              value = pool.call(n.name, args.slice(0, i + 1));
-            }
-            return slope;
-          }
-          case 'atan2': {
-            const [y, x] = [args[0]!, args[1]!];
-            const num = pool.sub(pool.mul(x, d(y)), pool.mul(y, d(x)));
-            return pool.div(num, pool.add(pool.mul(x, x), pool.mul(y, y)));
-          }
-          case 'hypot': {
-            let num = pool.ZERO;
-            for (const a of args) num = pool.add(num, pool.mul(a, d(a)));
-            return pool.cond(pool.compare('ne', e, pool.ZERO), pool.div(num, e), pool.ZERO);
-          }
-          default:
-            throw new Error(`internal: no derivative rule for ${n.name}`);
-        }
-      }
+      case 'pow':
+        return ownRule('pow')(pool, { self: e, args: n.args, d });
+      case 'fn':
+        return ownRule(n.name)(pool, { self: e, args: n.args, d });
       default:
         // Comparisons are piecewise constant.
         return pool.ZERO;

@@ -6,7 +6,7 @@
  * ever written into code. Every array read becomes a local first, so the writes at the end cannot
  * alias the reads, and every node used more than once is computed once into a local.
  */
-import { FUNCTIONS } from './functions.js';
+import { FUNCTIONS } from '../functions/registry.js';
 import { ExpressionTooLarge, type ExprPool, type IrNode } from './ir.js';
 
 /** One statement `target[index] = value` at the end of the generated function. */

@@ -4,7 +4,7 @@
  * to stay safe. Symbols are mapped to slots by the caller's resolver; their names never reach code.
  */
 import type { MathNode } from 'mathjs';
-import { FUNCTIONS, isFunctionName } from './functions.js';
+import { FUNCTIONS, FUNCTION_NAMES, isFunctionName } from '../functions/registry.js';
 import type { ComparisonOp, ExprPool } from './ir.js';
 
 /** A refused construct, with words for the user. */
@@ -80,7 +80,7 @@ export function fromMathjs(pool: ExprPool, root: MathNode, options: ConvertOptio
       case 'OperatorNode':
         return convertOperator(node as unknown as { fn: string; op: string; args: MathNode[] });
       case 'FunctionNode':
-        return convertFunction(node as unknown as { fn: { type?: string; name?: string }; args: MathNode[] });
+        return convertCall(pool, node as unknown as CallNode, convert, options);
       default:
         throw new UnsupportedExpression(
           `${node.type} is not part of the model language`,
@@ -138,42 +138,42 @@ export function fromMathjs(pool: ExprPool, root: MathNode, options: ConvertOptio
     }
   };
 
-  const convertFunction = (node: { fn: { type?: string; name?: string }; args: MathNode[] }): number => {
-    // Only a plain name may be called: `obj.sin(x)` has an accessor as callee, whose `name` would
-    // also read "sin".
-    const name = node.fn?.type === 'SymbolNode' && typeof node.fn.name === 'string' ? node.fn.name : undefined;
-    const args = node.args;
-    if (name === undefined) {
-      throw new UnsupportedExpression('a computed function call', 'call one of the listed functions by name');
-    }
-    if (name === 'pow') {
-      if (args.length !== 2) throw arityError(name, args.length, '2');
-      return pool.pow(convert(args[0]!), convert(args[1]!));
-    }
-    if (name === 'log' && args.length === 2) {
-      // log(x, base) = log(x) / log(base), as mathjs defines it.
-      return pool.div(pool.call('log', [convert(args[0]!)]), pool.call('log', [convert(args[1]!)]));
-    }
-    if (options.derivativeOutput && Object.prototype.hasOwnProperty.call(RECIPROCALS, name)) {
-      if (args.length !== 1) throw arityError(name, args.length, '1');
-      return pool.div(pool.ONE, pool.call(RECIPROCALS[name]!, [convert(args[0]!)]));
-    }
-    if (!isFunctionName(name)) {
-      throw new UnsupportedExpression(
-        `function ${JSON.stringify(name)} is not part of the model language`,
-        `use one of: ${Object.keys(FUNCTIONS).join(' ')} pow`,
-      );
-    }
-    const info = FUNCTIONS[name];
-    if (args.length < info.minArgs || args.length > info.maxArgs) {
-      const expected =
-        info.maxArgs === Infinity ? `at least ${info.minArgs}` : info.minArgs === info.maxArgs ? `${info.minArgs}` : `${info.minArgs} to ${info.maxArgs}`;
-      throw arityError(name, args.length, expected);
-    }
-    return pool.call(name, args.map(convert));
-  };
-
   return convert(root);
+}
+
+interface CallNode {
+  fn: { type?: string; name?: string };
+  args: MathNode[];
+}
+
+/** A call of a registry function (or, in mathjs derivative output, of a reciprocal trigonometric one). */
+function convertCall(pool: ExprPool, node: CallNode, convert: (node: MathNode) => number, options: ConvertOptions): number {
+  // Only a plain name may be called: `obj.sin(x)` has an accessor as callee, whose `name` would
+  // also read "sin".
+  const name = node.fn?.type === 'SymbolNode' && typeof node.fn.name === 'string' ? node.fn.name : undefined;
+  const args = node.args;
+  if (name === undefined) {
+    throw new UnsupportedExpression('a computed function call', 'call one of the listed functions by name');
+  }
+  if (options.derivativeOutput && Object.prototype.hasOwnProperty.call(RECIPROCALS, name)) {
+    if (args.length !== 1) throw arityError(name, args.length, '1');
+    return pool.div(pool.ONE, pool.call(RECIPROCALS[name]!, [convert(args[0]!)]));
+  }
+  if (!isFunctionName(name)) {
+    throw new UnsupportedExpression(
+      `function ${JSON.stringify(name)} is not part of the model language`,
+      `use one of: ${FUNCTION_NAMES.join(' ')}`,
+    );
+  }
+  const entry = FUNCTIONS[name];
+  const [min, max] = entry.arity;
+  if (args.length < min || args.length > max) {
+    const expected = max === Infinity ? `at least ${min}` : min === max ? `${min}` : `${min} to ${max}`;
+    throw arityError(name, args.length, expected);
+  }
+  const converted = args.map(convert);
+  if (entry.operator === 'pow') return pool.pow(converted[0]!, converted[1]!);
+  return pool.call(name, converted);
 }
 
 function arityError(name: string, got: number, expected: string): UnsupportedExpression {

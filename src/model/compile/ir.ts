@@ -8,7 +8,7 @@
  *
  * Every node is built from a checked tree or from a derivative rule; nothing here holds user text.
  */
-import { FUNCTIONS, type FunctionName } from './functions.js';
+import { FUNCTIONS, type FunctionName } from '../functions/registry.js';
 
 /**
  * What a symbol reads. Slots follow the CompiledModel contract; `d` is a define (an intermediate,

@@ -6,7 +6,7 @@ import type { ProblemList } from '../../errors.js';
 import { symbolsOf } from '../expression-check.js';
 import type { DefineSpec } from '../types.js';
 import { declare, readExpression, type LoadState } from './load-state.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 import { at, deref, mapEntries, type YNode } from './yaml-source.js';
 
 export function readDefines(st: LoadState, node: YNode, path = 'define'): DefineSpec[] {

@@ -5,7 +5,7 @@
 import { basename, dirname, extname, resolve } from 'node:path';
 import type { ExperimentRole, ExperimentSpec, Expr } from '../types.js';
 import { readExpression, type LoadState } from './load-state.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 import { labelProblem } from './names.js';
 import { suggestion } from './nearest.js';
 import {

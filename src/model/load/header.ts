@@ -1,7 +1,7 @@
 /** The top-level scalars of a model file: format, name, description, time_unit, units. */
 import type { SourceLocation } from '../../errors.js';
 import type { Model } from '../types.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 import { labelProblem } from './names.js';
 import { timeUnitProblem } from './unit-strings.js';
 import { at, deref, isNullish, readChoice, readNumber, readString, type Entry, type LoadContext } from './yaml-source.js';

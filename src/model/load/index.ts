@@ -9,7 +9,7 @@ import type { Model, ParameterSpec } from '../types.js';
 import { orderDefines, readDefines } from './defines.js';
 import { finishExperiment, readExperiments } from './experiments.js';
 import { readInputs } from './inputs.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 import { newLoadState } from './load-state.js';
 import { finishOutputs, readOutputs } from './outputs.js';
 import { applyOverrides } from './overrides.js';

@@ -1,7 +1,7 @@
 /** The `inputs` section: signals read from each experiment's log. */
 import type { InputSpec, Interpolation } from '../types.js';
 import { declare, type LoadState } from './load-state.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 import {
   at, byKey, deref, describeNode, isNullish, mapEntries, readChoice, readString, scalarOf, type YNode,
 } from './yaml-source.js';

@@ -2,8 +2,9 @@
  * Rules for the names a model declares (states, inputs, parameters, defines, outputs) and for
  * experiment and model names, which also end up in file and folder names.
  */
-import { ALLOWED_FUNCTIONS, NAME_PATTERN, PARSER_WORDS } from '../expression-check.js';
-import { LIMITS } from './limits.js';
+import { NAME_PATTERN, PARSER_WORDS } from '../expression-check.js';
+import { isFunctionName } from '../functions/registry.js';
+import { LIMITS } from '../limits.js';
 
 export { NAME_PATTERN, PARSER_WORDS };
 
@@ -20,7 +21,7 @@ export function nameProblem(name: string): string | undefined {
   if (!NAME_PATTERN.test(name)) return `"${name}" is not a valid name: use letters, digits and _, starting with a letter`;
   if (RESERVED_SYMBOLS.has(name)) return `"${name}" is reserved (t is time, pi and e are the constants)`;
   if (PARSER_WORDS.has(name)) return `"${name}" is a reserved word in expressions`;
-  if (ALLOWED_FUNCTIONS.has(name)) return `"${name}" is the name of a function`;
+  if (isFunctionName(name)) return `"${name}" is the name of a function`;
   if (name in Object.prototype || name === 'prototype') return `"${name}" is reserved`;
   return undefined;
 }

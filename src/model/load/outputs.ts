@@ -3,7 +3,7 @@ import type { Expr, OutputSpec } from '../types.js';
 import { readExpression, type LoadState } from './load-state.js';
 import { NAME_PATTERN } from './names.js';
 import type { SourceLocation } from '../../errors.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 import { parseExpression } from '../expression-check.js';
 import { at, byKey, deref, isNullish, mapEntries, readNumber, readString, type YNode } from './yaml-source.js';
 

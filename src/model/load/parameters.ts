@@ -4,7 +4,7 @@
  */
 import type { FreeParameterSpec, ParameterSpec } from '../types.js';
 import { declare, type LoadState } from './load-state.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 import {
   at, byKey, deref, describeNode, isNullish, keyPath, mapEntries, readBoolean, readChoice, readNumber, readString,
   scalarOf, seqItems, type Entry, type YNode,

@@ -1,7 +1,7 @@
 /** The `states` and `equations` sections: one equation per state, same names. */
 import type { EquationSpec, Expr, StateSpec } from '../types.js';
 import { declare, readExpression, type LoadState } from './load-state.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 import { suggestion } from './nearest.js';
 import { parseExpression } from '../expression-check.js';
 import { at, byKey, deref, isNullish, mapEntries, readString, type YNode } from './yaml-source.js';

@@ -12,7 +12,7 @@ import {
   type Document, type Node as YamlNode, type Scalar,
 } from 'yaml';
 import { ProblemList, UserError, type SourceLocation } from '../../errors.js';
-import { LIMITS } from './limits.js';
+import { LIMITS } from '../limits.js';
 import { suggestion } from './nearest.js';
 
 export interface SourceFile {

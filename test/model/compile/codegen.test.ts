@@ -13,9 +13,9 @@ const EXPRESSIONS = [
   'x + y', 'x - y', 'x * y', 'x / y', 'x ^ a', '-x', '+x', '(x + y) * a', 'x - -y', '-(x - y)',
   'sin(x)', 'cos(x)', 'tan(x)', 'asin(x)', 'acos(x)', 'atan(x)', 'atan2(y - 0.5, x - 0.5)',
   'sinh(x)', 'cosh(x)', 'tanh(x)', 'exp(x)', 'log(x)', 'log10(x)', 'sqrt(x)', 'abs(x - 0.5)',
-  'sign(x - 0.5)', 'min(x, y)', 'max(x, y, a)', 'min(x)', 'pow(x, a)', 'hypot(x, y)', 'hypot(x, y, a)',
+  'sign(x - 0.5)', 'min(x, y)', 'max(x, y, a)', 'pow(x, a)', 'hypot(x, y)', 'hypot(x, y, a)',
   'x < y', 'x <= y', 'x > y', 'x >= y', 'x == y', 'x != y', 'x == x', 'x < y ? x : y',
-  'x - y ? 1 : 2', '(x > 0.5) * a + (x <= 0.5) * b', 'log(x, 2)', '2 ^ x', 'x ^ y ^ a', 'x ^ 2', 'x ^ 3',
+  'x - y ? 1 : 2', '(x > 0.5) * a + (x <= 0.5) * b', '2 ^ x', 'x ^ y ^ a', 'x ^ 2', 'x ^ 3',
   'x ^ -1', 'pi * x', 'e ^ x', 't * x', 'u * a', 'fr * 2', 'fr / (1 + fr)', '1e-300 * x', '-1.5e-7 * x - -2',
   '0.1 + 0.2 * x', '1 / 3 * x', 'x * 0', '0 * x + y', 'cosh(y) ^ 2 - sinh(y) ^ 2',
 ];
@@ -204,6 +204,11 @@ describe('what the compiler refuses (the loader should have already)', () => {
     refuse('"text"', /constant of type string/);
     refuse('f(x) = 1', /FunctionAssignmentNode/);
     refuse('sin(x, a)', /sin\(\) called with 2 arguments/);
+    // The compiler's arities are the checker's (one registry): no one-argument min, max or hypot
+    // and no log(x, base) behind the checker's back.
+    refuse('min(x)', /min\(\) called with 1 argument in/);
+    refuse('hypot(a)', /hypot\(\) called with 1 argument in/);
+    refuse('log(x, 2)', /log\(\) called with 2 arguments/);
     refuse('x and a', /operator "and"/);
     refuse('x!', /operator "!"/);
   });
