@@ -43,12 +43,61 @@ interface Binding {
 export function lowerModel(model: Model, maxNodes?: number): LoweredModel {
   const pool = new ExprPool(maxNodes);
   const problems = new ProblemList();
-  const nStates = model.states.length;
-  const nInputs = model.inputs.length;
-  const nParams = model.parameters.length;
+  const bindings = declareNames(model, problems);
+  problems.throwIfAny();
+  const paramSlot = new Map<string, number>();
+  model.parameters.forEach((p, i) => paramSlot.set(p.name, i));
+  const lower = lowerer(pool, bindings, problems);
+  const nDefines = model.defines.length;
 
-  // One namespace (model-format.md, Names). A Map: names such as `constructor` or `__proto__`
-  // are ordinary keys here.
+  const defines = model.defines.map((d, i) => lower(d.expr, EVERYTHING, i, `define ${d.name}`));
+  const defineSym = model.defines.map((_, i) => pool.sym('d', i));
+  const defineOfSym = new Map<number, number>(defineSym.map((s, i) => [s, i]));
+  const equations = lowerEquations(model, lower, pool, problems);
+  const outputs = model.outputs.map((o) => lower(o.expr, EVERYTHING, nDefines, `output ${o.name}`));
+  const initialBase = model.states.map((s) => lower(s.initial, PARAMETERS_ONLY, nDefines, `the initial value of ${s.name}`));
+  const initialByExperiment = lowerExperimentInitials(model, initialBase, lower, problems);
+  const delaySlot = delaySlots(model, paramSlot, problems);
+  problems.throwIfAny();
+
+  const resolve = defineResolver(pool, defines, defineSym);
+  const diff = new Differentiator(pool);
+  checkInitials(model, pool, resolve, initialBase, initialByExperiment, problems);
+  problems.throwIfAny();
+
+  return {
+    pool,
+    diff,
+    nStates: model.states.length,
+    nInputs: model.inputs.length,
+    nParams: model.parameters.length,
+    paramSlot,
+    defines,
+    equations,
+    outputs,
+    initialBase,
+    initialByExperiment,
+    defineSym,
+    defineOfSym,
+    delaySlot,
+    resolve,
+  };
+}
+
+const EVERYTHING: ReadonlySet<SymbolKind> = new Set<SymbolKind>(['x', 'u', 'p', 't', 'd']);
+const PARAMETERS_ONLY: ReadonlySet<SymbolKind> = new Set<SymbolKind>(['p', 'd']);
+
+/**
+ * Converts one expression. `allowed` says which kinds of symbol it may read and `definesBefore`
+ * how many defines are visible (a define sees only earlier ones).
+ */
+type Lower = (expr: Expr, allowed: ReadonlySet<SymbolKind>, definesBefore: number, role: string) => number;
+
+/**
+ * One namespace (model-format.md, Names). A Map: names such as `constructor` or `__proto__` are
+ * ordinary keys here.
+ */
+function declareNames(model: Model, problems: ProblemList): Map<string, Binding> {
   const bindings = new Map<string, Binding>();
   const declare = (name: string, binding: Binding, where: SourceLocation) => {
     if (name === 't') {
@@ -65,72 +114,55 @@ export function lowerModel(model: Model, maxNodes?: number): LoweredModel {
   model.inputs.forEach((s, i) => declare(s.name, { kind: 'u', index: i }, s.where));
   model.parameters.forEach((s, i) => declare(s.name, { kind: 'p', index: i }, s.where));
   model.defines.forEach((d, i) => declare(d.name, { kind: 'd', index: i }, d.expr.where));
-  problems.throwIfAny();
+  return bindings;
+}
 
-  const paramSlot = new Map<string, number>();
-  model.parameters.forEach((p, i) => paramSlot.set(p.name, i));
-
-  const symOf = (b: Binding) => pool.sym(b.kind, b.index);
+/** An expression that cannot be lowered is a problem at its place, and lowers to zero meanwhile. */
+function lowerer(pool: ExprPool, bindings: Map<string, Binding>, problems: ProblemList): Lower {
   const timeSym = pool.sym('t', 0);
-
-  /**
-   * Converts one expression. `allowed` says which kinds of symbol it may read and `definesBefore`
-   * how many defines are visible (a define sees only earlier ones).
-   */
-  const lower = (expr: Expr, allowed: ReadonlySet<SymbolKind>, definesBefore: number, role: string): number => {
+  return (expr, allowed, definesBefore, role) => {
+    const resolve = (name: string): number | undefined => {
+      if (name === 't') {
+        if (!allowed.has('t')) throw new UnsupportedExpression(`${role} cannot use time t`, `write ${role} in terms of parameters`);
+        return timeSym;
+      }
+      const b = bindings.get(name);
+      if (!b) return undefined;
+      if (b.kind === 'd' && b.index >= definesBefore) {
+        throw new UnsupportedExpression(`define ${JSON.stringify(name)} is used before it is computed`, 'order the defines so that each uses only earlier ones (no cycles)');
+      }
+      if (!allowed.has(b.kind)) {
+        const what = b.kind === 'x' ? 'state' : b.kind === 'u' ? 'input' : b.kind;
+        throw new UnsupportedExpression(`${role} cannot use the ${what} ${JSON.stringify(name)}`, `write ${role} in terms of parameters`);
+      }
+      return pool.sym(b.kind, b.index);
+    };
     try {
-      return fromMathjs(pool, expr.node, {
-        resolve: (name) => {
-          if (name === 't') {
-            if (!allowed.has('t')) throw new UnsupportedExpression(`${role} cannot use time t`, `write ${role} in terms of parameters`);
-            return timeSym;
-          }
-          const b = bindings.get(name);
-          if (!b) return undefined;
-          if (b.kind === 'd' && b.index >= definesBefore) {
-            throw new UnsupportedExpression(
-              `define ${JSON.stringify(name)} is used before it is computed`,
-              'order the defines so that each uses only earlier ones (no cycles)',
-            );
-          }
-          if (!allowed.has(b.kind)) {
-            const what = b.kind === 'x' ? 'state' : b.kind === 'u' ? 'input' : b.kind;
-            throw new UnsupportedExpression(
-              `${role} cannot use the ${what} ${JSON.stringify(name)}`,
-              `write ${role} in terms of parameters`,
-            );
-          }
-          return symOf(b);
-        },
-      });
+      return fromMathjs(pool, expr.node, { resolve });
     } catch (err) {
       if (!(err instanceof UnsupportedExpression)) throw err;
       problems.add(expr.where, `${err.message} in ${JSON.stringify(expr.text)}`, err.fix);
       return pool.ZERO;
     }
   };
+}
 
-  const everything = new Set<SymbolKind>(['x', 'u', 'p', 't', 'd']);
-  const parametersOnly = new Set<SymbolKind>(['p', 'd']);
-
-  const defines = model.defines.map((d, i) => lower(d.expr, everything, i, `define ${d.name}`));
-  const defineSym = model.defines.map((_, i) => pool.sym('d', i));
-  const defineOfSym = new Map<number, number>(defineSym.map((s, i) => [s, i]));
-
+function lowerEquations(model: Model, lower: Lower, pool: ExprPool, problems: ProblemList): number[] {
   const equationOf = new Map(model.equations.map((e) => [e.state, e]));
-  const equations = model.states.map((s) => {
+  return model.states.map((s) => {
     const eq = equationOf.get(s.name);
     if (!eq) {
       problems.add(s.where, `state ${JSON.stringify(s.name)} has no equation`, `add "${s.name}: <expression>" under equations`);
       return pool.ZERO;
     }
-    return lower(eq.expr, everything, model.defines.length, `the equation for ${s.name}`);
+    return lower(eq.expr, EVERYTHING, model.defines.length, `the equation for ${s.name}`);
   });
-  const outputs = model.outputs.map((o) => lower(o.expr, everything, model.defines.length, `output ${o.name}`));
+}
 
-  const initialBase = model.states.map((s) => lower(s.initial, parametersOnly, model.defines.length, `the initial value of ${s.name}`));
+/** Per experiment: the states' own initial values, with the experiment's `initial` in their place. */
+function lowerExperimentInitials(model: Model, initialBase: number[], lower: Lower, problems: ProblemList): number[][] {
   const stateIndex = new Map(model.states.map((s, i) => [s.name, i]));
-  const initialByExperiment = model.experiments.map((exp) => {
+  return model.experiments.map((exp) => {
     const values = [...initialBase];
     for (const [name, expr] of Object.entries(exp.initial)) {
       const i = stateIndex.get(name);
@@ -138,12 +170,14 @@ export function lowerModel(model: Model, maxNodes?: number): LoweredModel {
         problems.add(exp.where, `initial value for ${JSON.stringify(name)}, which is not a state`, 'name a state under initial');
         continue;
       }
-      values[i] = lower(expr, parametersOnly, model.defines.length, `the initial value of ${name}`);
+      values[i] = lower(expr, PARAMETERS_ONLY, model.defines.length, `the initial value of ${name}`);
     }
     return values;
   });
+}
 
-  const delaySlot = model.inputs.map((input) => {
+function delaySlots(model: Model, paramSlot: Map<string, number>, problems: ProblemList): number[] {
+  return model.inputs.map((input) => {
     if (typeof input.delay !== 'string') return -1;
     const slot = paramSlot.get(input.delay);
     if (slot === undefined) {
@@ -152,31 +186,32 @@ export function lowerModel(model: Model, maxNodes?: number): LoweredModel {
     }
     return slot;
   });
-  problems.throwIfAny();
+}
 
-  // Define values: each define's raw node with earlier defines substituted (one shared memo, so
-  // every define is resolved once).
+/**
+ * Define values: each define's raw node with earlier defines substituted (one shared memo, so
+ * every define is resolved once); the resolver substitutes them into any raw node.
+ */
+function defineResolver(pool: ExprPool, defines: number[], defineSym: number[]): (raw: number) => number {
   const memo = new Map<number, number>();
   const defineValue = new Map<number, number>();
   const lookup = (symId: number) => defineValue.get(symId);
   defines.forEach((raw, i) => defineValue.set(defineSym[i]!, pool.substitute(raw, lookup, memo)));
+  return (raw: number) => pool.substitute(raw, lookup, memo);
+}
 
-  // Initial values may read defines, but only defines of parameters.
-  const diff = new Differentiator(pool);
-  const resolve = (raw: number) => pool.substitute(raw, lookup, memo);
+/** Initial values may read defines, but only defines of parameters. */
+function checkInitials(model: Model, pool: ExprPool, resolve: (raw: number) => number, initialBase: number[], initialByExperiment: number[][], problems: ProblemList): void {
   const checkInitial = (raw: number, expr: Expr, state: string) => {
     for (const s of pool.symbolsOf([resolve(raw)])) {
       const n = pool.node(s);
       if (n.op === 'sym' && n.kind !== 'p') {
-        problems.add(
-          expr.where,
-          `the initial value of ${state} depends on a state, an input or time through a define`,
-          'write initial values in terms of parameters only',
-        );
+        problems.add(expr.where, `the initial value of ${state} depends on a state, an input or time through a define`, 'write initial values in terms of parameters only');
         return;
       }
     }
   };
+  const stateIndex = new Map(model.states.map((s, i) => [s.name, i]));
   model.states.forEach((s, i) => checkInitial(initialBase[i]!, s.initial, s.name));
   model.experiments.forEach((exp, e) => {
     for (const [name, expr] of Object.entries(exp.initial)) {
@@ -184,23 +219,4 @@ export function lowerModel(model: Model, maxNodes?: number): LoweredModel {
       if (i !== undefined) checkInitial(initialByExperiment[e]![i]!, expr, name);
     }
   });
-  problems.throwIfAny();
-
-  return {
-    pool,
-    diff,
-    nStates,
-    nInputs,
-    nParams,
-    paramSlot,
-    defines,
-    equations,
-    outputs,
-    initialBase,
-    initialByExperiment,
-    defineSym,
-    defineOfSym,
-    delaySlot,
-    resolve,
-  };
 }

@@ -37,46 +37,91 @@ type OutFn = (t: number, z: Vec, u: Vec, udot: Vec, p: Vec, y: Vec, dy: Vec) => 
 type InitFn = (p: Vec, z0: Vec) => void;
 
 export function buildSensitivitySystem(low: LoweredModel, slots: readonly number[]): CompiledSensitivitySystem {
-  const { pool, diff, nStates: n } = low;
+  const { pool, nStates: n } = low;
   const q = slots.length;
+  const columnOfParam = sensitivityColumns(low, slots);
+  const inputsDelayedBy = slots.map((s) => low.delaySlot.flatMap((d, j) => (d === s ? [j] : [])));
+  const delayOfInput = inputsDelayedBy.map((js) => (js.length ? js[0]! : -1));
+  const nz = structuralNonZeros(low, slots, columnOfParam);
+  const tangent = tangentBuilder(low, slots, nz);
+  const reader = stateVectorReader(n);
+
+  const rhsAssign: Assignment[] = [];
+  low.equations.forEach((raw, i) => rhsAssign.push({ target: 'dz', index: i, node: low.resolve(raw) }));
+  low.equations.forEach((raw, i) => {
+    for (let k = 0; k < q; k++) {
+      const node = nz[i * q + k] ? low.resolve(tangent(raw, k)) : pool.ZERO;
+      rhsAssign.push({ target: 'dz', index: n + i * q + k, node });
+    }
+  });
+  const rhsBody = emitBody(pool, rhsAssign, reader);
+
+  const outAssign: Assignment[] = [];
+  low.outputs.forEach((raw, o) => outAssign.push({ target: 'y', index: o, node: low.resolve(raw) }));
+  low.outputs.forEach((raw, o) => {
+    for (let k = 0; k < q; k++) outAssign.push({ target: 'dy', index: o * q + k, node: low.resolve(tangent(raw, k)) });
+  });
+  const outBody = emitBody(pool, outAssign, reader);
+  const init = initialFunctions(low, q, tangent, reader);
+
+  return {
+    slots: [...slots],
+    q,
+    rhs: buildFunction<RhsFn>(['t', 'z', 'u', 'udot', 'p', 'dz'], rhsBody),
+    outputs: buildFunction<OutFn>(['t', 'z', 'u', 'udot', 'p', 'y', 'dy'], outBody),
+    initial(experiment: number, p: Vec, z0: Vec): void {
+      (init.byExperiment[experiment] ?? init.base)(p, z0);
+    },
+    delayOfInput,
+    inputsDelayedBy,
+    nonZero: nz,
+    source: { rhs: rhsBody, outputs: outBody, initial: init.bodies },
+  };
+}
+
+/** Column k of the sensitivities belongs to parameter slot slots[k]. */
+function sensitivityColumns(low: LoweredModel, slots: readonly number[]): Map<number, number> {
   const columnOfParam = new Map<number, number>();
   slots.forEach((s, k) => {
     if (!Number.isInteger(s) || s < 0 || s >= low.nParams) throw new RangeError(`sensitivity slot ${s} is not a parameter slot (0..${low.nParams - 1})`);
     if (columnOfParam.has(s)) throw new RangeError(`sensitivity slot ${s} is listed twice`);
     columnOfParam.set(s, k);
   });
+  return columnOfParam;
+}
 
-  const inputsDelayedBy = slots.map((s) => low.delaySlot.flatMap((d, j) => (d === s ? [j] : [])));
-  const delayOfInput = inputsDelayedBy.map((js) => (js.length ? js[0]! : -1));
+/** Which symbols a resolved expression reads (defines expanded): x_j, u_j, p_m. */
+function readsOf(low: LoweredModel, raw: number): { x: number[]; u: number[]; p: number[] } {
+  const x: number[] = [];
+  const u: number[] = [];
+  const p: number[] = [];
+  for (const s of low.pool.symbolsOf([low.resolve(raw)])) {
+    const node = low.pool.node(s);
+    if (node.op !== 'sym') continue;
+    if (node.kind === 'x') x.push(node.index);
+    else if (node.kind === 'u') u.push(node.index);
+    else if (node.kind === 'p') p.push(node.index);
+  }
+  return { x, u, p };
+}
 
-  // Which symbols each resolved expression reads (defines expanded): x_j, u_j, p_m.
-  const readsOf = (raw: number) => {
-    const x: number[] = [];
-    const u: number[] = [];
-    const p: number[] = [];
-    for (const s of pool.symbolsOf([low.resolve(raw)])) {
-      const node = pool.node(s);
-      if (node.op !== 'sym') continue;
-      if (node.kind === 'x') x.push(node.index);
-      else if (node.kind === 'u') u.push(node.index);
-      else if (node.kind === 'p') p.push(node.index);
-    }
-    return { x, u, p };
-  };
-
-  // Structural non-zeros of S: seeded by the initial values of every experiment, grown by the
-  // equations until nothing changes.
+/**
+ * Structural non-zeros of S (n x q, row-major): seeded by the initial values of every experiment,
+ * grown by the equations until nothing changes.
+ */
+function structuralNonZeros(low: LoweredModel, slots: readonly number[], columnOfParam: Map<number, number>): boolean[] {
+  const n = low.nStates;
+  const q = slots.length;
   const nz: boolean[] = new Array(n * q).fill(false);
-  const initialLists = [low.initialBase, ...low.initialByExperiment];
-  for (const list of initialLists) {
+  for (const list of [low.initialBase, ...low.initialByExperiment]) {
     list.forEach((raw, i) => {
-      for (const m of readsOf(raw).p) {
+      for (const m of readsOf(low, raw).p) {
         const k = columnOfParam.get(m);
         if (k !== undefined) nz[i * q + k] = true;
       }
     });
   }
-  const eqReads = low.equations.map(readsOf);
+  const eqReads = low.equations.map((raw) => readsOf(low, raw));
   // Rows that read state m, so that a non-zero S[m,k] can switch them on (a worklist per column:
   // linear in the size of the dependency graph).
   const readers: number[][] = Array.from({ length: n }, () => []);
@@ -98,8 +143,13 @@ export function buildSensitivitySystem(low: LoweredModel, slots: readonly number
       }
     }
   }
+  return nz;
+}
 
-  // Tangents, column by column, on raw nodes (defines as intermediates).
+/** Tangents d(raw)/d(p_slots[k]), column by column, on raw nodes (defines as intermediates, each differentiated once). */
+function tangentBuilder(low: LoweredModel, slots: readonly number[], nz: readonly boolean[]): (raw: number, k: number) => number {
+  const { pool, diff } = low;
+  const q = slots.length;
   const defineTangent = new Map<string, number>();
   const symbolTangent = (s: number, k: number): number => {
     const node = pool.node(s);
@@ -140,8 +190,12 @@ export function buildSensitivitySystem(low: LoweredModel, slots: readonly number
     }
     return sum;
   };
+  return tangent;
+}
 
-  const reader: SymbolReader = (node) => {
+/** Generated code reads states and sensitivities from z = [x, S], and inputs, their rates and parameters by slot. */
+function stateVectorReader(n: number): SymbolReader {
+  return (node) => {
     switch (node.kind) {
       case 'x':
         return `z[${node.index}]`;
@@ -159,30 +213,15 @@ export function buildSensitivitySystem(low: LoweredModel, slots: readonly number
         throw new Error(`internal: symbol ${node.kind} reached code`);
     }
   };
+}
 
-  const rhsAssign: Assignment[] = [];
-  low.equations.forEach((raw, i) => rhsAssign.push({ target: 'dz', index: i, node: low.resolve(raw) }));
-  low.equations.forEach((raw, i) => {
-    for (let k = 0; k < q; k++) {
-      const node = nz[i * q + k] ? low.resolve(tangent(raw, k)) : pool.ZERO;
-      rhsAssign.push({ target: 'dz', index: n + i * q + k, node });
-    }
-  });
-  const rhsBody = emitBody(pool, rhsAssign, reader);
-
-  const outAssign: Assignment[] = [];
-  low.outputs.forEach((raw, o) => outAssign.push({ target: 'y', index: o, node: low.resolve(raw) }));
-  low.outputs.forEach((raw, o) => {
-    for (let k = 0; k < q; k++) outAssign.push({ target: 'dy', index: o * q + k, node: low.resolve(tangent(raw, k)) });
-  });
-  const outBody = emitBody(pool, outAssign, reader);
-
-  // Initial: one function per distinct list of initial values (experiments without overrides
-  // share the states' own).
-  const initBodies: string[] = [];
-  const initFns: InitFn[] = [];
+/** One function per distinct list of initial values (experiments without overrides share the states' own). */
+function initialFunctions(low: LoweredModel, q: number, tangent: (raw: number, k: number) => number, reader: SymbolReader): { base: InitFn; byExperiment: InitFn[]; bodies: string[] } {
+  const n = low.nStates;
+  const bodies: string[] = [];
+  const fns: InitFn[] = [];
   const fnOfList = new Map<string, number>();
-  const initIndexOf = initialLists.map((list) => {
+  const indexOf = [low.initialBase, ...low.initialByExperiment].map((list) => {
     const key = list.join(',');
     let index = fnOfList.get(key);
     if (index === undefined) {
@@ -191,28 +230,13 @@ export function buildSensitivitySystem(low: LoweredModel, slots: readonly number
       list.forEach((raw, i) => {
         for (let k = 0; k < q; k++) assign.push({ target: 'z0', index: n + i * q + k, node: low.resolve(tangent(raw, k)) });
       });
-      const body = emitBody(pool, assign, reader);
-      index = initFns.length;
-      initBodies.push(body);
-      initFns.push(buildFunction<InitFn>(['p', 'z0'], body));
+      const body = emitBody(low.pool, assign, reader);
+      index = fns.length;
+      bodies.push(body);
+      fns.push(buildFunction<InitFn>(['p', 'z0'], body));
       fnOfList.set(key, index);
     }
     return index;
   });
-  const baseInit = initFns[initIndexOf[0]!]!;
-  const byExperiment = initIndexOf.slice(1).map((i) => initFns[i]!);
-
-  return {
-    slots: [...slots],
-    q,
-    rhs: buildFunction<RhsFn>(['t', 'z', 'u', 'udot', 'p', 'dz'], rhsBody),
-    outputs: buildFunction<OutFn>(['t', 'z', 'u', 'udot', 'p', 'y', 'dy'], outBody),
-    initial(experiment: number, p: Vec, z0: Vec): void {
-      (byExperiment[experiment] ?? baseInit)(p, z0);
-    },
-    delayOfInput,
-    inputsDelayedBy,
-    nonZero: nz,
-    source: { rhs: rhsBody, outputs: outBody, initial: initBodies },
-  };
+  return { base: fns[indexOf[0]!]!, byExperiment: indexOf.slice(1).map((i) => fns[i]!), bodies };
 }
