@@ -14,7 +14,7 @@ import type { ExperimentSpec, Model } from '../model/types.js';
 import { unitConverter, type Converter } from '../units/convert.js';
 import { readCsv } from './csv-table.js';
 import { GrowableF64, GrowableI32 } from './growable.js';
-import { editDistance, nearestNames } from './nearest.js';
+import { isLikelyTypo, nearestNames } from '../presentation/nearest-names.js';
 import { badCellHint, readCell } from './numbers.js';
 import type { ExperimentData } from './types.js';
 import { shownText } from '../util/printable.js';
@@ -157,7 +157,7 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
       for (const plan of outputs) {
         if (plan.index >= 0) continue;
         const renamed = exp.columns[plan.name] !== undefined;
-        const close = available.filter((n) => !used.has(where.get(n)!) && editDistance(n, plan.column) <= Math.min(2, Math.floor(plan.column.length / 3)));
+        const close = available.filter((n) => !used.has(where.get(n)!) && isLikelyTypo(plan.column, n));
         if (renamed || close.length) {
           headerProblems.push({ where: { file: shown, line, key: plan.key }, what: `the column "${plan.column}" of output ${plan.name} is not in the file; nearest columns: ${list(plan.column)}`, fix: `rename it with \`columns: { ${plan.name}: <column> }\` in the experiment, or set the output's \`column\`` });
         }

@@ -19,7 +19,7 @@ import type { MathNode } from 'mathjs';
 import { parse } from '../util/mathjs.js';
 import type { ProblemList, SourceLocation } from '../errors.js';
 import { LIMITS } from './load/limits.js';
-import { orList, suggestion } from './load/nearest.js';
+import { orList, suggestion } from '../presentation/nearest-names.js';
 import type { Expr } from './types.js';
 
 /** Letters, digits and `_`, starting with a letter (model-format.md, Names). */

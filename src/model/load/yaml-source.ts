@@ -13,7 +13,7 @@ import {
 } from 'yaml';
 import { ProblemList, UserError, type SourceLocation } from '../../errors.js';
 import { LIMITS } from './limits.js';
-import { suggestion } from './nearest.js';
+import { suggestion } from '../../presentation/nearest-names.js';
 
 export interface SourceFile {
   /** The path as the user gave it (used in messages). */

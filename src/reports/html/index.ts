@@ -1,11 +1,8 @@
-/** report.html: renderer, results-folder reader, writer and benchmark. */
+/** report.html: renderer, results-folder reader and writer. */
 export { renderFitReport } from './render-fit-report.js';
 export { readResultsFolder, readFitJson, readResidualsCsv, MAX_RESIDUALS_BYTES } from './read-results-folder.js';
 export type { ResultsFolder } from './read-results-folder.js';
 export { writeReportForFolder } from './write-report.js';
 export type { WrittenReport } from './write-report.js';
-export { benchmarkReport } from './bench.js';
-export type { ReportBenchmark } from './bench.js';
-export { demoResults } from './demo-results.js';
 export { decimateMinMax } from './decimate.js';
 export { escapeHtml } from './escape-html.js';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatEstimate, formatNumber, withUnit } from '../../../src/reports/html/format-number.js';
+import { formatEstimate, formatHtmlNumber, withHtmlUnit } from '../../src/presentation/numbers.js';
 
 describe('number formatting', () => {
   it('rounds an estimate at the second significant digit of its standard error', () => {
@@ -14,12 +14,12 @@ describe('number formatting', () => {
   });
 
   it('shows missing and non-finite values in words, not as numbers', () => {
-    expect(formatNumber(1e-4)).toBe('1e-4');
-    expect(formatNumber(6.4671e-6, 3)).toBe('6.47e-6');
-    expect(formatNumber(null)).toBe('—');
-    expect(formatNumber(NaN)).toBe('n/a');
-    expect(formatNumber(Infinity)).toBe('∞');
-    expect(withUnit(0.5, 'rad/s')).toBe('0.5 rad/s');
-    expect(withUnit(0.5, '1')).toBe('0.5');
+    expect(formatHtmlNumber(1e-4)).toBe('1e-4');
+    expect(formatHtmlNumber(6.4671e-6, 3)).toBe('6.47e-6');
+    expect(formatHtmlNumber(null)).toBe('—');
+    expect(formatHtmlNumber(NaN)).toBe('n/a');
+    expect(formatHtmlNumber(Infinity)).toBe('∞');
+    expect(withHtmlUnit(0.5, 'rad/s')).toBe('0.5 rad/s');
+    expect(withHtmlUnit(0.5, '1')).toBe('0.5');
   });
 });

@@ -1,6 +1,6 @@
 /** "Did you mean": edit distance and the choice of nearest names. */
 import { describe, expect, it } from 'vitest';
-import { editDistance, nearest, suggestion } from '../../../src/model/load/nearest.js';
+import { editDistance, nearest, suggestion } from '../../src/presentation/nearest-names.js';
 
 describe('edit distance (optimal string alignment)', () => {
   it.each([
