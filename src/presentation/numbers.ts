@@ -87,6 +87,20 @@ export function formatCorrelation(r: number): string {
   return r.toFixed(2);
 }
 
+/** A wall-clock time of our own work, e.g. "1.4 s": three significant digits. */
+export function formatDuration(seconds: number): string {
+  return `${formatNumber(seconds, 3)} s`;
+}
+
+const KIB = 1024;
+const MIB = 1024 * 1024;
+
+/** A file size: bytes below one KiB, whole KiB below one MiB, else MiB to one decimal. */
+export function formatFileSize(bytes: number): string {
+  if (bytes < KIB) return `${bytes} bytes`;
+  return bytes < MIB ? `${Math.round(bytes / KIB)} KiB` : `${(bytes / MIB).toFixed(1)} MiB`;
+}
+
 /** A value with its unit, e.g. "0.0521 N*m/A"; no unit after a dimensionless value ("1") or a mark. */
 function joinUnit(shown: string, x: number | null | undefined, unit: string | undefined): string {
   const isNumber = typeof x === 'number' && !Number.isNaN(x);

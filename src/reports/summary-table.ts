@@ -3,7 +3,7 @@
  * the results folder. Plain text, fixed-width columns, every number with its unit.
  */
 import type { FitResult, ParameterResult } from '../estimation/fit-result.js';
-import { formatCriterionFixed, formatNumber, RESIDUAL_VERDICTS, textTable, withUnit } from '../presentation/index.js';
+import { formatCriterionFixed, formatDuration, formatNumber, RESIDUAL_VERDICTS, textTable, withUnit } from '../presentation/index.js';
 
 // Rounded for reading (the full values are in the results folder): estimates and intervals with six
 // significant digits so that a narrow interval stays distinguishable from its estimate, the rest
@@ -51,7 +51,7 @@ export function renderFitSummary(fit: FitResult, resultsFolder?: string): string
   parts.push(
     `fit of ${fit.model.name}: ${fit.status} (${fit.message}); ${fit.iterations} iterations, ${fit.simulations} simulations` +
       (fit.sensitivitySimulations !== undefined ? ` + ${fit.sensitivitySimulations} with sensitivities` : '') +
-      `, ${formatNumber(fit.wallSeconds, 3)} s`,
+      `, ${formatDuration(fit.wallSeconds)}`,
   );
   if (fit.starts) parts.push(`${fit.starts.requested} starts (seed ${fit.starts.seed}): ${fit.starts.distinctOptima} distinct optim${fit.starts.distinctOptima === 1 ? 'um' : 'a'} found; the best is kept`);
   parts.push('');

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { formatEstimate, formatHtmlNumber, withHtmlUnit } from '../../src/presentation/numbers.js';
+import {
+  formatCriterion, formatEstimate, formatFileSize, formatHtmlNumber, formatNumber, formatPValue, formatQuantity, withHtmlUnit, withUnit,
+} from '../../src/presentation/numbers.js';
 
 describe('number formatting', () => {
   it('rounds an estimate at the second significant digit of its standard error', () => {
@@ -21,5 +23,32 @@ describe('number formatting', () => {
     expect(formatHtmlNumber(Infinity)).toBe('∞');
     expect(withHtmlUnit(0.5, 'rad/s')).toBe('0.5 rad/s');
     expect(withHtmlUnit(0.5, '1')).toBe('0.5');
+  });
+
+  it('uses one policy in plain text, with ASCII marks for what is not a finite number', () => {
+    // Common practice, no source: four significant digits, shortest exponent form outside [1e-3, 1e6).
+    expect(formatNumber(6.4671e-6)).toBe('6.467e-6');
+    expect(formatNumber(2.5e7)).toBe('2.5e7');
+    expect(formatNumber(null)).toBe('-');
+    expect(formatNumber(NaN)).toBe('n/a');
+    expect(formatNumber(-Infinity)).toBe('-inf');
+    expect(withUnit(0.21, 'rad/s')).toBe('0.21 rad/s');
+    expect(withUnit(NaN, 'A')).toBe('n/a');
+    expect(formatQuantity(0.0200001, 's')).toBe('0.02 s');
+    expect(formatQuantity(12, undefined)).toBe('12 samples');
+  });
+
+  it('keeps criteria plain up to 1e9 and p-values down to the resolution of double precision', () => {
+    expect(formatCriterion(-63309.57)).toBe('-63309.6');
+    expect(formatCriterion(169732412)).toBe('169732000');
+    expect(formatPValue(0.01725, 2)).toBe('0.017');
+    expect(formatPValue(3.04e-5)).toBe('3e-5');
+    expect(formatPValue(1e-17)).toBe('< 1e-15');
+  });
+
+  it('gives file sizes in bytes, KiB or MiB', () => {
+    expect(formatFileSize(16)).toBe('16 bytes');
+    expect(formatFileSize(300 * 1024)).toBe('300 KiB');
+    expect(formatFileSize(3 * 1024 * 1024)).toBe('3.0 MiB');
   });
 });

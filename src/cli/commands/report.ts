@@ -1,6 +1,7 @@
 /** `rigcal report DIR`: rebuild report.html in a results folder of `fit` from its fit.json and residuals.csv. */
 import { isAbsolute, resolve } from 'node:path';
 import type { Command } from 'commander';
+import { formatDuration, formatFileSize } from '../../presentation/numbers.js';
 import type { CommandContext } from '../io.js';
 
 export function register(program: Command, ctx: CommandContext): void {
@@ -20,7 +21,7 @@ export function register(program: Command, ctx: CommandContext): void {
       const { writeReportForFolder } = await import('../../reports/html/write-report.js'); // loaded when the command runs
       const dir = isAbsolute(dirArg) ? dirArg : resolve(ctx.io.cwd, dirArg);
       const written = await writeReportForFolder(dir);
-      ctx.io.stdout(`wrote ${written.file} (${(written.bytes / 1024).toFixed(0)} KiB in ${written.seconds.toFixed(2)} s)\n`);
+      ctx.io.stdout(`wrote ${written.file} (${formatFileSize(written.bytes)} in ${formatDuration(written.seconds)})\n`);
       return 0;
     }));
 }
