@@ -1,10 +1,10 @@
 /**
  * Bench row of report generation: report.html for 200,000 samples per output (benchmarkReport of
- * src/reports/html). Rendering is asynchronous and the bench runner times synchronous work, so the
+ * bench/report-bench.ts). Rendering is asynchronous and the bench runner times synchronous work, so the
  * renders run in setup (one warm-up, then the measured one) and the note carries their own timing;
  * the table's time columns of this row measure nothing.
  */
-import { benchmarkReport } from '../../src/reports/html/index.js';
+import { benchmarkReport } from '../report-bench.js';
 import type { BenchCase } from '../case.js';
 
 const SAMPLES = 200_000;

@@ -12,6 +12,7 @@ import { akaikeWeights, likelihoodRatioTest } from '../estimation/information-cr
 import type { Model } from '../model/types.js';
 import { residualDiagnostics, scoreSeries } from '../diagnostics/index.js';
 import { fitLikelihood } from './likelihood.js';
+import { formatCriterion, likelihoodRatioVerdict } from '../presentation/index.js';
 
 export interface CandidateFit {
   /** Display name (the model's name, made unique by the caller). */
@@ -150,15 +151,15 @@ function choosePreferred(models: readonly RankedModel[]): { preferred: string; r
     return { preferred: best?.name ?? '', reason: 'no candidate could be scored (every fit failed or had too few observations for AICc)' };
   }
   const next = models[1];
-  let reason = `lowest AICc (${fmt(best.aicc)}, Akaike weight ${fmt(best.weight, 3)})`;
-  if (next && Number.isFinite(next.aicc)) reason += `; the next, ${next.name}, is ${fmt(next.deltaAicc, 3)} AICc units worse`;
+  let reason = `lowest AICc (${formatCriterion(best.aicc)}, Akaike weight ${formatCriterion(best.weight, 3)})`;
+  if (next && Number.isFinite(next.aicc)) reason += `; the next, ${next.name}, is ${formatCriterion(next.deltaAicc, 3)} AICc units worse`;
   const simpler = models
     .filter((m) => m !== best && m.freeParameters < best.freeParameters && m.deltaAicc < SUBSTANTIAL_SUPPORT_DELTA)
     .sort((a, b) => a.freeParameters - b.freeParameters)[0];
   if (simpler) {
     reason +=
       `. But ${simpler.name}, with ${simpler.freeParameters} instead of ${best.freeParameters} free parameters, is within ` +
-      `${fmt(simpler.deltaAicc, 3)} < ${SUBSTANTIAL_SUPPORT_DELTA} AICc units: the data support it about as well, and the simpler model is as good ` +
+      `${formatCriterion(simpler.deltaAicc, 3)} < ${SUBSTANTIAL_SUPPORT_DELTA} AICc units: the data support it about as well, and the simpler model is as good ` +
       `(rule of thumb of Burnham & Anderson 2002: differences below 2 mean substantial support for both)`;
   }
   return { preferred: best.name, reason };
@@ -180,25 +181,8 @@ function nestedTests(models: readonly RankedModel[]): NestedTest[] {
       statistic: t.statistic,
       dof: t.dof,
       pValue: t.pValue,
-      verdict: significant
-        ? `${large.name} fits significantly better than ${small.name} at the ${LRT_ALPHA * 100} % level: its extra parameters are supported`
-        : `${large.name} does not fit significantly better than ${small.name} at the ${LRT_ALPHA * 100} % level: keep the simpler model`,
+      verdict: likelihoodRatioVerdict(large.name, small.name, significant, LRT_ALPHA),
     });
   }
   return tests;
-}
-
-/** Six significant digits for criteria (differences of a few units matter on values of thousands). */
-export function fmt(v: number, digits = 6): string {
-  if (!Number.isFinite(v)) return v > 0 ? 'inf' : v < 0 ? '-inf' : '-';
-  if (v === 0) return '0';
-  const a = Math.abs(v);
-  if (a >= 1e-3 && a < 1e9) return String(Number(v.toPrecision(digits)));
-  return v.toExponential(digits - 1).replace('e+', 'e');
-}
-
-/** 1 - F(x) in double precision cannot resolve tails below about 1e-15. */
-export function fmtP(p: number): string {
-  if (p < 1e-15) return '< 1e-15';
-  return p < 1e-4 ? p.toExponential(1) : fmt(p, 3);
 }

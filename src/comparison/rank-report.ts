@@ -1,5 +1,6 @@
 /** The `rank` result rendered for people (a table and sentences) and for programs (JSON). */
-import { fmt, fmtP, type RankedModel } from './rank-fits.js';
+import { formatCriterion, formatNumber, formatPValueClause, TEXT_MARKS, textTable, whitenessTally } from '../presentation/index.js';
+import type { RankedModel } from './rank-fits.js';
 import type { RankOutcome } from '../verbs/rank.js';
 
 export function rankJson(r: RankOutcome): object {
@@ -39,18 +40,18 @@ export function rankText(r: RankOutcome): string {
     m.name,
     String(m.freeParameters),
     String(m.k),
-    fmt(m.objective),
-    fmt(m.aicc),
-    fmt(m.deltaAicc, 3),
-    fmt(m.bic),
-    fmt(m.weight, 3),
+    formatCriterion(m.objective),
+    formatCriterion(m.aicc),
+    formatCriterion(m.deltaAicc, 3),
+    formatCriterion(m.bic),
+    formatNumber(m.weight, 3),
     whitenessCell(m),
     ...validationKeys.map((k) => {
       const v = m.validation.find((x) => `${x.experiment}/${x.output}` === k);
-      return v ? fmt(v.nrmse, 3) : '-';
+      return v ? formatNumber(v.nrmse, 3) : TEXT_MARKS.missing;
     }),
   ]);
-  const lines = [table(header, rows), ''];
+  const lines = [textTable(header, rows, { rightAligned: header.map((_, j) => j).slice(1) }), ''];
   lines.push(`objective: ${r.objective}; k = free parameters + estimated noise levels.`);
   if (validationKeys.length) lines.push('NRMSE: RMSE over the standard deviation of the measurement, on validation experiments (never fitted); lower is better.');
   lines.push('', `preferred: ${r.preferred}: ${r.reason}.`);
@@ -63,8 +64,7 @@ export function rankText(r: RankOutcome): string {
     lines.push('', 'likelihood-ratio tests (only meaningful when each smaller model is a special case of the larger):');
     if (!r.nested.length) lines.push('  none: no two candidates differ in their number of free parameters');
     for (const t of r.nested) {
-      const p = fmtP(t.pValue);
-      lines.push(`  ${t.smaller} vs ${t.larger}: statistic ${fmt(t.statistic, 5)}, ${t.dof} degree${t.dof === 1 ? '' : 's'} of freedom, p ${p.startsWith('<') ? p : `= ${p}`}: ${t.verdict}`);
+      lines.push(`  ${t.smaller} vs ${t.larger}: statistic ${formatCriterion(t.statistic, 5)}, ${t.dof} degree${t.dof === 1 ? '' : 's'} of freedom, ${formatPValueClause(t.pValue)}: ${t.verdict}`);
     }
   }
   for (const f of r.failures) lines.push(`not ranked: ${f.name} (${f.file}): the fit failed: ${f.message}`);
@@ -72,18 +72,9 @@ export function rankText(r: RankOutcome): string {
 }
 
 function whitenessCell(m: RankedModel): string {
-  const judged = m.whiteness.filter((w) => w.white !== null);
-  if (!judged.length) return 'not judged';
-  const white = judged.filter((w) => w.white).length;
-  return white === judged.length ? 'white' : `${judged.length - white}/${judged.length} not white`;
+  return whitenessTally(m.whiteness.map((w) => w.white));
 }
 
 function uniqueKeys(keys: string[]): string[] {
   return [...new Set(keys)];
-}
-
-function table(header: string[], rows: string[][]): string {
-  const widths = header.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j].length)));
-  const line = (cells: string[]) => cells.map((c, j) => (j === 0 ? c.padEnd(widths[j]) : c.padStart(widths[j]))).join('  ').trimEnd();
-  return [line(header), widths.map((w) => '-'.repeat(w)).join('  '), ...rows.map(line)].join('\n');
 }

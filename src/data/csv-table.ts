@@ -7,6 +7,7 @@
  */
 import { readFileSync, statSync } from 'node:fs';
 import Papa from 'papaparse';
+import { formatFileSize } from '../presentation/numbers.js';
 import { UserError } from '../errors.js';
 import { MAX_DATA_FILE_BYTES, MAX_DATA_ROWS } from './limits.js';
 import { sha256Hex } from '../files/sha256.js';
@@ -33,10 +34,6 @@ function isRegularFile(path: string): boolean {
   } catch {
     return false;
   }
-}
-
-function mib(bytes: number): string {
-  return `${(bytes / (1024 * 1024)).toFixed(1)} MiB`;
 }
 
 /** The first line that is neither empty nor a `#` comment (among the first 1,000 lines). */
@@ -108,7 +105,7 @@ export function readCsv(
   if (size > maxBytes) {
     throw new UserError({
       where: { file: shown },
-      what: `the data file is ${mib(size)}, more than the ${mib(maxBytes)} rigcal reads into memory`,
+      what: `the data file is ${formatFileSize(size)}, more than the ${formatFileSize(maxBytes)} rigcal reads into memory`,
       fix: 'decimate the log or split it into several experiments (each a file of its own)',
     });
   }

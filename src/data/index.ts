@@ -2,4 +2,3 @@
 export { loadExperimentData } from './load-experiment.js';
 export { readCsv, detectDelimiter } from './csv-table.js';
 export { MAX_DATA_FILE_BYTES, MAX_DATA_ROWS } from './limits.js';
-export { nearestNames, editDistance } from './nearest.js';

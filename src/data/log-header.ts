@@ -7,7 +7,7 @@ import { UserError, type Problem } from '../errors.js';
 import type { ExperimentSpec, Model } from '../model/types.js';
 import { shownText } from '../util/printable.js';
 import type { ColumnPlan, LogPlan } from './column-plan.js';
-import { editDistance, nearestNames } from './nearest.js';
+import { isLikelyTypo, nearestNames } from '../presentation/nearest-names.js';
 
 export interface HeaderLayout {
   /** Field index of the time column, -1 for a static model's log without one. */
@@ -109,7 +109,7 @@ function timeColumn(
 /** An output column absent from the file is a mistake when it was renamed, or an unused column is nearly its name. */
 function looksMistyped(plan: ColumnPlan, exp: ExperimentSpec, available: string[], where: Map<string, number>, used: Set<number>): boolean {
   if (exp.columns[plan.name] !== undefined) return true;
-  return available.some((n) => !used.has(where.get(n)!) && editDistance(n, plan.column) <= Math.min(2, Math.floor(plan.column.length / 3)));
+  return available.some((n) => !used.has(where.get(n)!) && isLikelyTypo(plan.column, n));
 }
 
 function firstColumns(available: string[]): string {

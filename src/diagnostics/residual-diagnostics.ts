@@ -13,7 +13,8 @@ import { displayLags, MIN_SAMPLES_FOR_TESTS, testLags } from './lag-rule.js';
 import { ljungBox } from './ljung-box.js';
 import { residualOf } from './scores.js';
 import { sampleInterval } from './sample-interval.js';
-import { formatQuantity } from './format-quantity.js';
+import { formatQuantity } from '../presentation/numbers.js';
+import { RESIDUAL_VERDICTS } from '../presentation/verdicts.js';
 
 /** An input signal sampled at the same times as the residual series. */
 export interface InputSignal {
@@ -48,7 +49,7 @@ export function residualDiagnostics(series: ResidualSeries, inputs: InputSignal[
   let n = 0;
   for (const v of residual) if (Number.isFinite(v)) n++;
   if (n < MIN_SAMPLES_FOR_TESTS) {
-    return { samples: n, inputsFollowed: [], verdict: `too few samples (${n}) to judge the residuals` };
+    return { samples: n, inputsFollowed: [], verdict: RESIDUAL_VERDICTS.tooFewSamples(n) };
   }
 
   const dt = sampleInterval(series.time);
@@ -88,14 +89,14 @@ export function residualDiagnostics(series: ResidualSeries, inputs: InputSignal[
       // A run reaching the last fifth of the lags examined: the time scale may lie beyond them.
       correlatedWords =
         run > 0.8 * lShow
-          ? `residuals are correlated beyond ${say(run)} (near the longest lag examined, ${say(lShow)}): the model misses slow dynamics or a drift`
-          : `residuals are correlated up to ${say(run)}: the model misses dynamics on that time scale`;
+          ? RESIDUAL_VERDICTS.correlatedBeyond(say(run), say(lShow))
+          : RESIDUAL_VERDICTS.correlatedUpTo(say(run));
     } else {
       // No run from lag 1: the test sums many small correlations. Name the strongest lag of the
       // test, without claiming that the residuals stay correlated up to it.
       let at = 1;
       for (let k = 2; k <= lTest; k++) if (Math.abs(r[k]) > Math.abs(r[at])) at = k;
-      correlatedWords = `residuals are weakly correlated (Ljung-Box p = ${lb.pValue.toPrecision(2)}), most at lag ${say(at)}: the model may miss a small effect on that time scale`;
+      correlatedWords = RESIDUAL_VERDICTS.weaklyCorrelated(lb.pValue, say(at));
     }
   }
 
@@ -127,11 +128,11 @@ export function residualDiagnostics(series: ResidualSeries, inputs: InputSignal[
     const threshold = normalQuantile(1 - alpha / (2 * rx.length), 0, 1) * sd;
     if (maxAbs > threshold) {
       inputsFollowed.push(input.name);
-      followedWords.push(`residuals follow input ${input.name} (cross-correlation ${maxAbs.toFixed(2)} at lag ${say(at)}): part of its effect is not modelled`);
+      followedWords.push(RESIDUAL_VERDICTS.followsInput(input.name, maxAbs, say(at)));
     }
   }
 
-  const parts = [white ? 'residuals are white: the model explains this output within noise' : correlatedWords!];
+  const parts = [white ? RESIDUAL_VERDICTS.white : correlatedWords!];
   if (followedWords.length) parts.push(...followedWords);
   return {
     samples: n,

@@ -21,7 +21,7 @@ import { parse } from '../util/mathjs.js';
 import type { ProblemList, SourceLocation } from '../errors.js';
 import { FUNCTIONS, FUNCTION_NAMES, isFunctionName } from './functions/registry.js';
 import { LIMITS } from './limits.js';
-import { orList, suggestion } from './load/nearest.js';
+import { orList, suggestion } from '../presentation/nearest-names.js';
 import type { Expr } from './types.js';
 
 /** Letters, digits and `_`, starting with a letter (model-format.md, Names). */

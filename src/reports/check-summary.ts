@@ -5,19 +5,7 @@
  */
 import type { ExperimentData } from '../data/types.js';
 import type { Model, ParameterSpec } from '../model/types.js';
-import { formatNumber } from './summary-table.js';
-
-/** Fixed-width text table with a rule under the header. */
-export function plainTable(header: string[], rows: string[][], indent = '  '): string {
-  const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => (r[i] ?? '').length)));
-  const line = (cells: string[]) => indent + cells.map((c, i) => (c ?? '').padEnd(widths[i])).join('  ').trimEnd();
-  return [line(header), line(widths.map((w) => '-'.repeat(w))), ...rows.map(line)].join('\n');
-}
-
-/** A value with its unit, e.g. `0.21 rad/s`; the bare number when there is no unit. */
-export function withUnit(x: number, unit: string): string {
-  return unit ? `${formatNumber(x)} ${unit}` : formatNumber(x);
-}
+import { formatNumber, indentedTable, withUnit } from '../presentation/index.js';
 
 /** True when not one symbol of the model declares a unit: then dimensional checks are skipped. */
 export function noSymbolCarriesUnit(model: Model): boolean {
@@ -103,11 +91,11 @@ export function renderCheckSummary({ model, data }: CheckSummaryInput): string {
 
   if (!model.isStatic) {
     out.push('', `states (${model.states.length})`);
-    out.push(plainTable(['name', 'unit', 'initial'], model.states.map((s) => [s.name, s.unit || '-', s.initial.text])));
+    out.push(indentedTable(['name', 'unit', 'initial'], model.states.map((s) => [s.name, s.unit || '-', s.initial.text])));
   }
   if (model.inputs.length) {
     out.push('', `inputs (${model.inputs.length})`);
-    out.push(plainTable(['name', 'unit', 'column', 'interpolate', 'delay'], model.inputs.map((i) => [
+    out.push(indentedTable(['name', 'unit', 'column', 'interpolate', 'delay'], model.inputs.map((i) => [
       i.name,
       i.unit || '-',
       i.columnUnit ? `${i.column} (${i.columnUnit})` : i.column,
@@ -117,13 +105,13 @@ export function renderCheckSummary({ model, data }: CheckSummaryInput): string {
   }
   const free = model.parameters.filter((p) => p.kind === 'free').length;
   out.push('', `parameters (${model.parameters.length}: ${model.parameters.length - free} fixed, ${free} free)`);
-  out.push(plainTable(['name', 'kind', 'value / bounds', 'start', 'scale', 'unit', 'note'], model.parameters.map((p) => parameterRow(p, model))));
+  out.push(indentedTable(['name', 'kind', 'value / bounds', 'start', 'scale', 'unit', 'note'], model.parameters.map((p) => parameterRow(p, model))));
   if (model.defines.length) {
     out.push('', `defines (${model.defines.length})`);
-    out.push(plainTable(['name', 'expression'], model.defines.map((d) => [d.name, d.expr.text])));
+    out.push(indentedTable(['name', 'expression'], model.defines.map((d) => [d.name, d.expr.text])));
   }
   out.push('', `outputs (${model.outputs.length})`);
-  out.push(plainTable(['name', 'unit', 'expression', 'column', 'sigma'], model.outputs.map((o) => [
+  out.push(indentedTable(['name', 'unit', 'expression', 'column', 'sigma'], model.outputs.map((o) => [
     o.name,
     o.unit || '-',
     o.expr.text,
@@ -132,7 +120,7 @@ export function renderCheckSummary({ model, data }: CheckSummaryInput): string {
   ])));
   out.push('', `experiments (${model.experiments.length})`);
   if (model.experiments.length) {
-    out.push(plainTable(['name', 'role', 'file', 'rows', 'time span', 'sample interval', 'missing', 'outputs logged'],
+    out.push(indentedTable(['name', 'role', 'file', 'rows', 'time span', 'sample interval', 'missing', 'outputs logged'],
       model.experiments.map((_, k) => experimentRow(model, k, data[k]))));
   } else {
     out.push('  none: fit and simulate with data need at least one experiment');

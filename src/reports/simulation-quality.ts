@@ -1,9 +1,8 @@
 /** The fit quality table that `rigcal simulate` prints where an experiment has data. */
 import { scoreSeries } from '../diagnostics/scores.js';
 import type { Model } from '../model/types.js';
-import { plainTable, withUnit } from './check-summary.js';
+import { formatNumber, indentedTable as plainTable, withUnit } from '../presentation/index.js';
 import type { SimulatedExperiment } from './simulation-csv.js';
-import { formatNumber } from './summary-table.js';
 
 /** Fit quality per experiment and measured output: samples, missing, RMSE (with unit), R^2. */
 export function renderQuality(model: Model, runs: readonly SimulatedExperiment[]): string {

@@ -6,7 +6,7 @@
  */
 import { ProblemList } from '../errors.js';
 import type { CompiledModel } from '../model/compiled-types.js';
-import { nearestNames } from '../data/nearest.js';
+import { nearestNames } from '../presentation/nearest-names.js';
 
 /** Split `name@experiment` into its parts (`experiment` undefined for a plain name). */
 export function splitParameterKey(key: string): { name: string; experiment?: string } {

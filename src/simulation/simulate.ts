@@ -5,7 +5,7 @@
 import { UserError } from '../errors.js';
 import type { CompiledModel } from '../model/compiled-types.js';
 import type { ExperimentData } from '../data/types.js';
-import { nearestNames } from '../data/nearest.js';
+import { nearestNames } from '../presentation/nearest-names.js';
 import { integrate, type Drive } from './integrate.js';
 import { evaluateStatic } from './static-model.js';
 import type { SimulationOptions, SimulationResult } from './types.js';

@@ -8,7 +8,7 @@ import { UserError, type Problem } from '../errors.js';
 import { residualDiagnostics, scoreSeries } from '../diagnostics/index.js';
 import type { ResidualSeries } from '../diagnostics/types.js';
 import { loadExperimentData } from '../data/load-experiment.js';
-import { nearestNames } from '../data/nearest.js';
+import { nearestNames } from '../presentation/nearest-names.js';
 import { compileModel } from '../model/compile/index.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';

@@ -9,11 +9,10 @@ import type { ResidualSeries } from '../diagnostics/types.js';
 import type { FitResult, OutputResult } from '../estimation/fit/fit-result.js';
 import { html } from '../reports/html/escape-html.js';
 import { experimentsSection } from '../reports/html/experiments-section.js';
-import { formatNumber, withUnit } from '../reports/html/format-number.js';
+import { formatHtmlNumber, whitenessLabel, withHtmlUnit } from '../presentation/index.js';
 import type { ShownOutput } from '../reports/html/output-diagnostics.js';
 import { pageHead } from '../reports/html/page-head.js';
 import type { ValidationResult } from './validation-result.js';
-
 
 /** Noise levels from the estimates, to show beside the RMSE (output -> sigma, estimated?). */
 export type NoiseLevels = Record<string, { sigma: number; estimated: boolean }>;
@@ -50,7 +49,7 @@ export async function renderValidationReport(result: ValidationResult, series: r
   } as unknown as FitResult;
 
   const rows = result.outputs.map(
-    (o) => html`<tr><td>${o.experiment}</td><td>${o.output}</td><td class="num">${o.samples}${o.missing ? ` (${o.missing} missing)` : ''}</td><td class="num">${withUnit(o.rmse, o.unit)}</td><td class="num">${formatNumber(o.nrmse, 3)}</td><td class="num">${formatNumber(o.r2, 4)}</td><td>${o.whiteness ? (o.whiteness.white ? 'white' : 'not white') : 'not judged'}</td></tr>`,
+    (o) => html`<tr><td>${o.experiment}</td><td>${o.output}</td><td class="num">${o.samples}${o.missing ? ` (${o.missing} missing)` : ''}</td><td class="num">${withHtmlUnit(o.rmse, o.unit)}</td><td class="num">${formatHtmlNumber(o.nrmse, 3)}</td><td class="num">${formatHtmlNumber(o.r2, 4)}</td><td>${whitenessLabel(o.whiteness)}</td></tr>`,
   );
   const page = html`${pageHead(`${result.model.name}: validation report`, result.version)}
 <body>

@@ -12,7 +12,8 @@ import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { chromium } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
-import { demoResults, renderFitReport } from '../../src/reports/html/index.js';
+import { renderFitReport } from '../../src/reports/html/index.js';
+import { demoResults } from '../helpers/demo-results.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const ARTIFACTS = resolve(import.meta.dirname, '../../test-artifacts');

@@ -169,7 +169,7 @@ describe('readCsv', () => {
   it('refuses files over the size and row caps with a clear message', () => {
     const file = csvFile('cap.csv', 't,u\n0,1\n1,1\n2,1\n');
     const noop = { header: () => {}, row: () => {} };
-    expect(() => readCsv(file, 'cap.csv', noop, { maxBytes: 10, maxRows: 100 })).toThrow(/the data file is 0\.0 MiB, more than the 0\.0 MiB rigcal reads into memory/);
+    expect(() => readCsv(file, 'cap.csv', noop, { maxBytes: 10, maxRows: 100 })).toThrow(/the data file is 16 bytes, more than the 10 bytes rigcal reads into memory/);
     const e = userError(() => readCsv(file, 'cap.csv', noop, { maxBytes: 1e6, maxRows: 2 }));
     expect(e.message).toMatch(/more than 2 data rows/);
     expect(e.problems[0].where.line).toBe(4);

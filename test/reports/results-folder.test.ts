@@ -7,7 +7,8 @@ import { UserError } from '../../src/errors.js';
 import { readEstimates } from '../../src/files/estimates-file.js';
 import { renderEstimatesYaml } from '../../src/reports/estimates-yaml.js';
 import { renderResidualsCsv } from '../../src/reports/residuals-csv.js';
-import { formatNumber, renderFitSummary } from '../../src/reports/summary-table.js';
+import { formatNumber } from '../../src/presentation/numbers.js';
+import { renderFitSummary } from '../../src/reports/summary-table.js';
 import { writeResults } from '../../src/reports/write-results.js';
 import { sampleOutcome } from './helpers/sample-fit.js';
 

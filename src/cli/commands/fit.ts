@@ -7,6 +7,7 @@
 import type { Command } from 'commander';
 import { integerOption } from '../options.js';
 import type { FitProgress } from '../../estimation/fit/fit-options.js';
+import { formatNumber } from '../../presentation/numbers.js';
 import type { CommandContext } from '../io.js';
 
 interface FitCliOptions {
@@ -60,7 +61,7 @@ export function register(program: Command, ctx: CommandContext): void {
         let lastLine = 0;
         const onProgress = showProgress
           ? (p: FitProgress) => {
-              const line = `${p.message ?? `start ${p.start}`}  iteration ${p.iteration}  cost ${p.cost.toPrecision(6)}  step ${p.step.toPrecision(2)}`;
+              const line = `${p.message ?? `start ${p.start}`}  iteration ${p.iteration}  cost ${formatNumber(p.cost, 6)}  step ${formatNumber(p.step, 2)}`;
               io.stderr(`\r${line.padEnd(lastLine)}`);
               lastLine = line.length;
             }

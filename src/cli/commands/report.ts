@@ -1,5 +1,6 @@
 /** `rigcal report DIR`: rebuild report.html in a results folder of `fit` from its fit.json and residuals.csv. */
 import type { Command } from 'commander';
+import { formatDuration, formatFileSize } from '../../presentation/numbers.js';
 import type { CommandContext } from '../io.js';
 
 export function register(program: Command, ctx: CommandContext): void {
@@ -18,7 +19,7 @@ export function register(program: Command, ctx: CommandContext): void {
     .action(ctx.action(async (dirArg: string) => {
       const { runReport } = await import('../../verbs/report.js'); // loaded when the command runs
       const written = await runReport({ folder: dirArg, cwd: ctx.io.cwd });
-      ctx.io.stdout(`wrote ${written.file} (${(written.bytes / 1024).toFixed(0)} KiB in ${written.seconds.toFixed(2)} s)\n`);
+      ctx.io.stdout(`wrote ${written.file} (${formatFileSize(written.bytes)} in ${formatDuration(written.seconds)})\n`);
       return 0;
     }));
 }

@@ -7,7 +7,7 @@ import type { ExperimentRole, ExperimentSpec, Expr } from '../types.js';
 import { readExpression, type LoadState } from './load-state.js';
 import { LIMITS } from '../limits.js';
 import { labelProblem } from './names.js';
-import { suggestion } from './nearest.js';
+import { suggestion } from '../../presentation/nearest-names.js';
 import {
   at, byKey, deref, isNullish, keyPath, mapEntries, readChoice, readNumber, readString, seqItems, type Entry, type YNode,
 } from './yaml-source.js';

@@ -6,7 +6,7 @@ import type { SourceLocation } from '../../errors.js';
 import { parseExpression } from '../expression-check.js';
 import type { Expr } from '../types.js';
 import { nameProblem } from './names.js';
-import { suggestion } from './nearest.js';
+import { suggestion } from '../../presentation/nearest-names.js';
 import { at, deref, scalarOf, textColumnOf, type LoadContext, type YNode } from './yaml-source.js';
 
 export type SymbolKind = 'state' | 'input' | 'parameter' | 'define';

@@ -5,7 +5,7 @@
 import { symbolsOf } from '../expression-check.js';
 import type { DefineSpec, Expr, InputSpec } from '../types.js';
 import { nameInExpression, undeclaredHint, type LoadState } from './load-state.js';
-import { suggestion } from './nearest.js';
+import { suggestion } from '../../presentation/nearest-names.js';
 
 /** Where an expression stands: what it may read. */
 export type ExpressionRole = 'dynamic' | 'initial';

@@ -2,7 +2,7 @@
 import type { EquationSpec, Expr, StateSpec } from '../types.js';
 import { declare, readExpression, type LoadState } from './load-state.js';
 import { LIMITS } from '../limits.js';
-import { suggestion } from './nearest.js';
+import { suggestion } from '../../presentation/nearest-names.js';
 import { parseExpression } from '../expression-check.js';
 import { at, byKey, deref, isNullish, mapEntries, readString, type YNode } from './yaml-source.js';
 

@@ -13,7 +13,8 @@ import {
 } from 'yaml';
 import { ProblemList, UserError, type SourceLocation } from '../../errors.js';
 import { LIMITS } from '../limits.js';
-import { suggestion } from './nearest.js';
+import { suggestion } from '../../presentation/nearest-names.js';
+import { formatFileSize } from '../../presentation/numbers.js';
 
 export interface SourceFile {
   /** The path as the user gave it (used in messages). */
@@ -37,7 +38,7 @@ export function readSourceFile(fileAsGiven: string, absolute: string): SourceFil
   }
   const tooBig = (n: number) => new UserError({
     where,
-    what: `the model file is ${(n / 1048576).toFixed(1)} MiB; model files are limited to ${LIMITS.fileBytes / 1048576} MiB`,
+    what: `the model file is ${formatFileSize(n)}; model files are limited to ${LIMITS.fileBytes / 1048576} MiB`,
     fix: 'a model file holds equations and parameters only; keep logged data in CSV files named under `experiments`',
   });
   if (size > LIMITS.fileBytes) throw tooBig(size);

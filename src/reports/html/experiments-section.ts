@@ -5,7 +5,7 @@
  */
 import type { FitResult } from '../../estimation/fit/fit-result.js';
 import { html, raw, type Html } from './escape-html.js';
-import { formatNumber, withUnit } from './format-number.js';
+import { formatCorrelation, formatHtmlNumber, formatPValueClause, RESIDUAL_VERDICTS, withHtmlUnit } from '../../presentation/index.js';
 import type { ShownOutput } from './output-diagnostics.js';
 import { autocorrelationSpec, measuredSimulatedSpec, residualSpec } from './plots.js';
 import { renderVegaLiteSvg } from './vega-svg.js';
@@ -29,9 +29,9 @@ async function outputBlock(fit: FitResult, shown: ShownOutput): Promise<Html> {
   const verdictClass = w ? (w.white ? 'white' : 'correlated') : 'unknown';
   return html`<div class="output-block">
 <h4>${series.output}${series.unit && series.unit !== '1' ? html` <span class="note">(${series.unit})</span>` : ''}</h4>
-<p class="verdict ${verdictClass}">${o.verdict ?? 'no verdict'}</p>
-<p class="scores">samples ${o.samples}${o.missing ? ` (${o.missing} missing)` : ''} · RMSE ${withUnit(o.rmse, o.unit)} · NRMSE ${formatNumber(o.nrmse, 3)} · R² ${formatNumber(o.r2, 4)} · noise σ ${withUnit(o.sigma, o.unit)} ${o.sigmaEstimated ? '(estimated)' : '(given)'}${w ? ` · Ljung-Box Q ${formatNumber(w.ljungBox)} over ${w.lags} lags, ${w.pValue < 1e-4 ? 'p < 0.0001' : `p = ${formatNumber(w.pValue, 2)}`}` : ''}</p>
-${o.inputCorrelation?.length ? html`<p class="scores">largest cross-correlation of the residuals with each input: ${o.inputCorrelation.map((c) => `${c.input} ${c.maxAbs.toFixed(2)} at lag ${withUnit(c.lag, fit.timeUnit)} (95 % band of one lag ±${c.band.toFixed(2)})`).join('; ')}. The verdict judges all lags together, since one lag in twenty crosses its band by chance.</p>` : ''}
+<p class="verdict ${verdictClass}">${o.verdict ?? RESIDUAL_VERDICTS.none}</p>
+<p class="scores">samples ${o.samples}${o.missing ? ` (${o.missing} missing)` : ''} · RMSE ${withHtmlUnit(o.rmse, o.unit)} · NRMSE ${formatHtmlNumber(o.nrmse, 3)} · R² ${formatHtmlNumber(o.r2, 4)} · noise σ ${withHtmlUnit(o.sigma, o.unit)} ${o.sigmaEstimated ? '(estimated)' : '(given)'}${w ? ` · Ljung-Box Q ${formatHtmlNumber(w.ljungBox)} over ${w.lags} lags, ${formatPValueClause(w.pValue, 2)}` : ''}</p>
+${o.inputCorrelation?.length ? html`<p class="scores">largest cross-correlation of the residuals with each input: ${o.inputCorrelation.map((c) => `${c.input} ${formatCorrelation(c.maxAbs)} at lag ${withHtmlUnit(c.lag, fit.timeUnit)} (95 % band of one lag ±${formatCorrelation(c.band)})`).join('; ')}. The verdict judges all lags together, since one lag in twenty crosses its band by chance.</p>` : ''}
 ${figures.map((svg) => html`<figure>${raw(svg)}</figure>`)}
 </div>`;
 }

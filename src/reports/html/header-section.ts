@@ -1,5 +1,6 @@
 /** Top of the report: model, status, message, date; the cautions; a table of contents. */
 import type { FitResult } from '../../estimation/fit/fit-result.js';
+import { formatDuration } from '../../presentation/index.js';
 import { html, type Html } from './escape-html.js';
 
 export function headerSection(fit: FitResult, hasValidation: boolean): Html {
@@ -9,7 +10,7 @@ export function headerSection(fit: FitResult, hasValidation: boolean): Html {
 <div class="meta">Calibration report · model file <code>${fit.model.file}</code> · ${date ? html`fitted ${date} · ` : ''}rigcal ${fit.version}</div>
 <p class="message"><span class="status ${statusClass(fit.status)}">${fit.status}</span> ${fit.message}</p>
 ${fit.model.description ? html`<p class="description">${fit.model.description}</p>` : ''}
-<p class="meta">${fit.iterations} iterations · ${fit.simulations} simulations · ${fit.wallSeconds.toFixed(2)} s</p>
+<p class="meta">${fit.iterations} iterations · ${fit.simulations} simulations · ${formatDuration(fit.wallSeconds)}</p>
 </header>
 <aside class="cautions" aria-label="cautions">
 <strong>Before you use these numbers</strong>

@@ -1,7 +1,7 @@
 /** The parameter table and the overall statistics. */
 import type { FitResult, ParameterResult } from '../../estimation/fit/fit-result.js';
 import { html, type Html } from './escape-html.js';
-import { formatEstimate, formatNumber } from './format-number.js';
+import { formatCriterion, formatCriterionFixed, formatEstimate, formatHtmlNumber } from '../../presentation/index.js';
 
 /** Pairwise |correlation| above this is flagged (shared spec numerics.md, Identifiability). */
 const HIGH_CORRELATION = 0.95;
@@ -23,10 +23,10 @@ export function parametersSection(fit: FitResult): Html {
   const rows = fit.parameters.map((p) => {
     const flags = parameterFlags(p, fit);
     const interval = p.ci95 ? `${formatEstimate(p.ci95[0], p.stdError)} … ${formatEstimate(p.ci95[1], p.stdError)}` : p.status === 'free' ? '—' : '';
-    const bounds = p.min !== undefined || p.max !== undefined ? `${formatNumber(p.min)} … ${formatNumber(p.max)}${p.scale === 'log' ? ' (log)' : ''}` : '';
+    const bounds = p.min !== undefined || p.max !== undefined ? `${formatHtmlNumber(p.min)} … ${formatHtmlNumber(p.max)}${p.scale === 'log' ? ' (log)' : ''}` : '';
     return html`<tr class="${p.status}">
 <td>${p.name}</td><td>${p.status}</td><td class="num">${formatEstimate(p.estimate, p.stdError)}</td><td>${p.unit}</td>
-<td class="num">${p.status === 'free' ? formatNumber(p.stdError, 3) : ''}</td><td class="num">${interval}</td><td class="num">${bounds}</td>
+<td class="num">${p.status === 'free' ? formatHtmlNumber(p.stdError) : ''}</td><td class="num">${interval}</td><td class="num">${bounds}</td>
 <td>${flags.length ? html`<span class="flag">${flags.join('; ')}</span>` : ''}</td></tr>`;
   });
   const s = fit.statistics;
@@ -36,7 +36,7 @@ export function parametersSection(fit: FitResult): Html {
 <p class="note">Fixed parameters are measured values taken as given. Standard errors and intervals are in the parameter's unit; 95 % intervals from the Student t distribution with ${s.dof} degrees of freedom.</p>
 <table class="stats"><tbody>
 <tr><th>observations</th><td class="num">${s.observations}</td><th>free parameters</th><td class="num">${s.freeParameters}</td><th>degrees of freedom</th><td class="num">${s.dof}</td></tr>
-<tr><th>weighted SSE</th><td class="num">${formatNumber(s.weightedSSE)}</td><th>reduced chi-square</th><td class="num">${s.reducedChiSquare === undefined ? 'n/a (noise estimated)' : formatNumber(s.reducedChiSquare)}</td><th>log-likelihood</th><td class="num">${formatNumber(s.logLikelihood)}</td></tr>
-<tr><th>AICc</th><td class="num">${formatNumber(s.aicc)}</td><th>BIC</th><td class="num">${formatNumber(s.bic)}</td><th></th><td></td></tr>
+<tr><th>weighted SSE</th><td class="num">${formatHtmlNumber(s.weightedSSE, 6)}</td><th>reduced chi-square</th><td class="num">${s.reducedChiSquare === undefined ? 'n/a (noise estimated)' : formatHtmlNumber(s.reducedChiSquare)}</td><th>log-likelihood</th><td class="num">${formatCriterion(s.logLikelihood)}</td></tr>
+<tr><th>AICc</th><td class="num">${formatCriterionFixed(s.aicc)}</td><th>BIC</th><td class="num">${formatCriterionFixed(s.bic)}</td><th></th><td></td></tr>
 </tbody></table></section>`;
 }

@@ -4,6 +4,7 @@
  * names, so no name can be read as a vega expression.
  */
 import type { TopLevelSpec } from 'vega-lite';
+import { formatCorrelation, HTML_MARKS } from '../../presentation/index.js';
 import { decimateMinMax } from './decimate.js';
 
 export const COLOURS = {
@@ -129,7 +130,7 @@ export function correlationSpec(names: readonly string[], matrix: readonly (read
   names.forEach((a, i) =>
     names.forEach((b, j) => {
       const v = matrix[i]?.[j] ?? null;
-      values.push({ a, b, v: v === null || !Number.isFinite(v) ? null : v, label: v === null || !Number.isFinite(v) ? 'n/a' : v.toFixed(2) });
+      values.push({ a, b, v: v === null || !Number.isFinite(v) ? null : v, label: v === null || !Number.isFinite(v) ? HTML_MARKS.notANumber : formatCorrelation(v) });
     }),
   );
   const cell = Math.max(26, Math.min(56, Math.floor(420 / Math.max(1, names.length))));

@@ -6,6 +6,7 @@
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import Papa from 'papaparse';
+import { formatFileSize } from '../../presentation/numbers.js';
 import { UserError } from '../../errors.js';
 import type { ResidualSeries } from '../../diagnostics/types.js';
 import type { FitResult } from '../../estimation/fit/fit-result.js';
@@ -68,7 +69,7 @@ export function readResidualsCsv(file: string, fit: FitResult): ResidualSeries[]
   }
   const size = statSync(file).size;
   if (size > MAX_RESIDUALS_BYTES) {
-    throw new UserError({ where: { file }, what: `residuals.csv is ${(size / 2 ** 20).toFixed(0)} MiB, more than the ${MAX_RESIDUALS_BYTES / 2 ** 20} MiB a report reads`, fix: 'shorten the experiments (window) or thin the logs before fitting' });
+    throw new UserError({ where: { file }, what: `residuals.csv is ${formatFileSize(size)}, more than the ${MAX_RESIDUALS_BYTES / 2 ** 20} MiB a report reads`, fix: 'shorten the experiments (window) or thin the logs before fitting' });
   }
   // rigcal writes residuals.csv without comments or blank lines, so row i is line i + 1.
   const parsed = Papa.parse<string[]>(readFileSync(file, 'utf8').replace(/^\uFEFF/, ''), { skipEmptyLines: true });

@@ -5,7 +5,8 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { UserError } from '../../../src/errors.js';
 import { renderFitJson } from '../../../src/reports/fit-json.js';
 import { renderResidualsCsv } from '../../../src/reports/residuals-csv.js';
-import { demoResults, readResultsFolder } from '../../../src/reports/html/index.js';
+import { readResultsFolder } from '../../../src/reports/html/index.js';
+import { demoResults } from '../../helpers/demo-results.js';
 import { runCli } from '../../../src/cli/run.js';
 
 const dirs: string[] = [];

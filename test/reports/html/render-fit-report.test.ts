@@ -1,5 +1,6 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { demoResults, renderFitReport } from '../../../src/reports/html/index.js';
+import { renderFitReport } from '../../../src/reports/html/index.js';
+import { demoResults } from '../../helpers/demo-results.js';
 
 const HOSTILE = '<script>alert(1)</script>&"\'';
 

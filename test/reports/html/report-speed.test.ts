@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { benchmarkReport } from '../../../src/reports/html/index.js';
+import { benchmarkReport } from '../../../bench/report-bench.js';
 
 describe('report of a 200,000-sample log', () => {
   it('stays under 3 MB and renders in seconds', async () => {

@@ -1,9 +1,9 @@
 /**
  * Speed and size of report.html for a long log, for the benchmark table: renders the demo results
- * (demo-results.ts) with `samples` samples per experiment, one fit experiment with two outputs.
+ * (test/helpers/demo-results.ts) with `samples` samples per experiment, one fit experiment with two outputs.
  */
-import { demoResults } from './demo-results.js';
-import { renderFitReport } from './render-fit-report.js';
+import { demoResults } from '../test/helpers/demo-results.js';
+import { renderFitReport } from '../src/reports/html/index.js';
 
 export interface ReportBenchmark {
   samples: number;

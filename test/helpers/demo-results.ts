@@ -4,10 +4,10 @@
  * small unmodelled ripple), with seeded noise. Invented data, for demonstration only: it is not a
  * fit, only the shape of one.
  */
-import type { ResidualSeries } from '../../diagnostics/types.js';
-import type { FitResult, OutputResult } from '../../estimation/fit/fit-result.js';
-import { residualDiagnostics } from '../../diagnostics/residual-diagnostics.js';
-import { scoreSeries } from '../../diagnostics/scores.js';
+import type { ResidualSeries } from '../../src/diagnostics/types.js';
+import type { FitResult, OutputResult } from '../../src/estimation/fit/fit-result.js';
+import { residualDiagnostics } from '../../src/diagnostics/residual-diagnostics.js';
+import { scoreSeries } from '../../src/diagnostics/scores.js';
 
 export interface DemoOptions {
   /** Samples per experiment (default 2000). */

@@ -1,0 +1,25 @@
+/**
+ * The one fixed-width text table of the terminal: a header, a rule of dashes under it, columns two
+ * spaces apart, trailing spaces trimmed. Numbers may be right-aligned column by column.
+ */
+
+export interface TableLayout {
+  /** Put before every line (check and simulate indent their tables under a heading). */
+  indent?: string;
+  /** Indices of the columns aligned to the right (numbers); the others are aligned to the left. */
+  rightAligned?: readonly number[];
+}
+
+export function textTable(header: readonly string[], rows: readonly (readonly string[])[], layout: TableLayout = {}): string {
+  const indent = layout.indent ?? '';
+  const right = new Set(layout.rightAligned ?? []);
+  const widths = header.map((h, j) => Math.max(h.length, ...rows.map((r) => (r[j] ?? '').length)));
+  const line = (cells: readonly string[]) =>
+    indent + widths.map((w, j) => (right.has(j) ? (cells[j] ?? '').padStart(w) : (cells[j] ?? '').padEnd(w))).join('  ').trimEnd();
+  return [line(header), line(widths.map((w) => '-'.repeat(w))), ...rows.map(line)].join('\n');
+}
+
+/** The tables of `check` and `simulate`: indented by two spaces under their heading, left-aligned. */
+export function indentedTable(header: readonly string[], rows: readonly (readonly string[])[]): string {
+  return textTable(header, rows, { indent: '  ' });
+}
