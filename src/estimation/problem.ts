@@ -14,15 +14,22 @@
  * column in the rows of its own experiment.
  */
 import { type JacobianInput, type RowMajorMatrix, toRowMajor } from './solver/row-major.js';
-import { RunFailure } from '../errors.js';
 import type { CompiledModel } from '../model/compiled-types.js';
 import type { ExperimentData } from '../data/types.js';
 import type { FreeParameterSpec } from '../model/types.js';
-import type { SimulationOptions, SimulationResult } from '../simulation/types.js';
+import { outcomeOfThrowing } from '../simulation/outcome.js';
+import type { SimulationFailure, SimulationOptions, SimulationOutcome, SimulationResult } from '../simulation/types.js';
 
 /** The simulator's entry points, passed in so that the problem is a pure function of its parts. */
 export interface SimulatorFns {
+  /** Throws RunFailure when the simulation cannot finish (simulateAll, and the fit's own uses). */
   simulateExperiment(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationResult;
+  /**
+   * The same answering a failure as a value (simulation/simulate.ts trySimulateExperiment): the
+   * trial simulations use it. When absent, it is derived from `simulateExperiment` by
+   * `outcomeOfThrowing` (simulation/outcome.ts), the one place a RunFailure becomes a value.
+   */
+  trySimulateExperiment?(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationOutcome;
   /** Declared values, then the experiment's `set`, then `values` and `model.overrides`. */
   parameterVector(compiled: CompiledModel, experimentIndex: number, values?: Record<string, number>): Float64Array;
 }
@@ -76,7 +83,11 @@ export interface EstimationProblem {
   thetaOf(values: readonly number[]): number[];
   /** The compiled model's parameter vector for fit experiment `fitIndex` at theta. */
   paramsFor(theta: readonly number[], fitIndex: number): Float64Array;
-  /** Weighted residuals, or null when a simulation failed (the optimiser rejects the step). */
+  /**
+   * Weighted residuals, or null when a simulation failed (the optimiser rejects the step; the words
+   * are in `lastFailure`). Null rather than the solver's `{ failed: why }`: the solver's own words
+   * for a failure without words are part of the fit's messages users know.
+   */
   residuals(theta: readonly number[]): Float64Array | null;
   residualsAndJacobian(theta: readonly number[]): ResidualsAndJacobian | null;
   /**
@@ -92,8 +103,8 @@ export interface EstimationProblem {
    */
   reweighted(residuals: Float64Array, jacobian: JacobianInput, from: readonly number[]): { residuals: Float64Array; jacobian: RowMajorMatrix };
   counters: { simulations: number; sensitivitySimulations: number };
-  /** The last simulation failure seen (for messages when every trial fails). */
-  lastFailure?: RunFailure;
+  /** The last simulation failure seen (for messages when every trial fails, or the start does). */
+  lastFailure?: SimulationFailure;
 }
 
 function sameTheta(a: readonly number[], b: readonly number[]): boolean {
@@ -165,15 +176,13 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
   let lastJacobianTheta: number[] | undefined;
   let kept: { theta: number[]; results: SimulationResult[] } | undefined;
 
-  /** A simulation at a trial point: a RunFailure (diverged, stiff...) is a failed trial, kept for its words. */
+  const trySimulate = sim.trySimulateExperiment ? sim.trySimulateExperiment.bind(sim) : outcomeOfThrowing(sim.simulateExperiment.bind(sim));
+  /** A simulation at a trial point: a failure (diverged, stiff...) is a failed trial, kept for its words. */
   const trialSimulation = (fitIndex: number, p: Float64Array, options?: { sensitivitySlots: readonly number[] }): SimulationResult | null => {
-    try {
-      return sim.simulateExperiment(compiled, fitData[fitIndex], p, options);
-    } catch (err) {
-      if (!(err instanceof RunFailure)) throw err;
-      problem.lastFailure = err;
-      return null;
-    }
+    const outcome = trySimulate(compiled, fitData[fitIndex], p, options);
+    if (outcome.ok) return outcome.result;
+    problem.lastFailure = outcome.failure;
+    return null;
   };
 
   const problem: EstimationProblem = {
@@ -262,7 +271,7 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
               if (c < 0) continue;
               const v = -dy[i * q + k] * chain[k] * w;
               if (!Number.isFinite(v)) {
-                problem.lastFailure = new RunFailure(`the output sensitivities are not finite in experiment ${fitData[fitIndex].experiment.name}`);
+                problem.lastFailure = { message: `the output sensitivities are not finite in experiment ${fitData[fitIndex].experiment.name}`, details: {} };
                 return null;
               }
               J[row + c] = v;
@@ -286,9 +295,10 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
         const i = b.samples[s];
         const v = (meas[i] - y[i]) * w;
         if (!Number.isFinite(v)) {
-          problem.lastFailure = new RunFailure(
-            `the simulated output ${compiled.model.outputs[b.output].name} is not finite at time ${d.time[i]} in experiment ${d.experiment.name}`,
-          );
+          problem.lastFailure = {
+            message: `the simulated output ${compiled.model.outputs[b.output].name} is not finite at time ${d.time[i]} in experiment ${d.experiment.name}`,
+            details: {},
+          };
           return false;
         }
         r[b.offset + s] = v;

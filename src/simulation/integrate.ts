@@ -17,12 +17,12 @@
  * sample times (a sample exactly at a jump is a set of measure zero and takes S+).
  */
 import { Outcome, Solver } from './vendor/odex.js';
-import { RunFailure } from '../errors.js';
 import type { CompiledModel, SensitivitySystem } from '../model/compiled-types.js';
 import { InputTrack } from './input-track.js';
+import { simulationFailed } from './outcome.js';
 import { diagnoseStepLimit, stiffnessWarning } from './stiffness.js';
 import { tolerances } from './tolerances.js';
-import type { SimulationOptions, SimulationResult, SimulationStats } from './types.js';
+import type { SimulationOptions, SimulationOutcome, SimulationStats } from './types.js';
 
 /** What drives one simulation: sample times, the integration start, and the logged inputs. */
 export interface Drive {
@@ -42,6 +42,12 @@ export function defaultMaxSteps(samplesInSegment: number): number {
   return Math.max(100_000, 8 * samplesInSegment);
 }
 
+/**
+ * Internal control flow of the integrator, never seen outside this file: the right-hand side is
+ * called from inside odex's step loop, which offers the callback no way to stop it, so a
+ * non-finite derivative is thrown from the callback and caught in `integrate` around the
+ * `solve` call, where it becomes a failure value with the time and state it was found at.
+ */
 class NonFiniteState extends Error {
   constructor(readonly t: number, readonly z: Float64Array, readonly dz: Float64Array) {
     super('non-finite');
@@ -106,16 +112,10 @@ function solverOfSize(N: number): Solver {
 }
 
 /**
- * Whether the sensitivities take part in the step-size control. Off: partial error control (the
- * steps follow the states; see tolerances.ts for the measurement behind that choice).
+ * Integrate the model along `drive`. A run that cannot finish (non-finite initial value or state,
+ * step limit) answers a failure value that says where and with which parameter values.
  */
-export let sensitivityErrorControl = true;
-/** For tests and measurements only: switch the sensitivity error control on or off. */
-export function setSensitivityErrorControl(on: boolean): void {
-  sensitivityErrorControl = on;
-}
-
-export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationResult {
+export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationOutcome {
   const model = compiled.model;
   const n = compiled.nStates;
   const nIn = compiled.nInputs;
@@ -161,7 +161,7 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
   else compiled.initial(drive.experimentIndex, p, z);
   for (let i = 0; i < N; i++) {
     if (!Number.isFinite(z[i])) {
-      throw new RunFailure(
+      return simulationFailed(
         `cannot simulate experiment ${drive.name}: the initial value of ${i < n ? `state ${model.states[i].name}` : 'a sensitivity'} is not finite (parameters ${formatParameters(compiled, p)})`,
         { experiment: drive.name, time: drive.start, parameters: parameterRecord(compiled, p) },
       );
@@ -241,9 +241,9 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
   solver.denseOutput = !aligned;
   solver.relativeTolerance = tol.rtol;
   solver.absoluteTolerance = tol.atol;
-  // Partial error control (tolerances.ts): the step size follows the states; the sensitivities
-  // are integrated with the same steps.
-  solver.errorComponents = sensitivityErrorControl ? N : n;
+  // Partial error control (tolerances.ts), on request: the step size follows the states; the
+  // sensitivities are integrated with the same steps.
+  solver.errorComponents = (options.sensitivityErrorControl ?? true) ? N : n;
   // Build the interpolant only for steps that contain a sample (the observer samples exactly those).
   solver.denseNeeded = aligned ? null : (_xOld: number, x: number) => m < end && drive.time[m] <= x;
 
@@ -314,7 +314,7 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
         const xs = lastZ.subarray(0, n);
         for (const j of linearIdx) tracks[j].fill(lastX, u, udot, j);
         const d = diagnoseStepLimit(compiled, lastX, Float64Array.from(xs), u, p, a, lastX, b - a, stepsInSegment);
-        throw new RunFailure(`cannot simulate experiment ${drive.name}: ${d.text} (parameters ${formatParameters(compiled, p)})`, {
+        return simulationFailed(`cannot simulate experiment ${drive.name}: ${d.text} (parameters ${formatParameters(compiled, p)})`, {
           experiment: drive.name,
           time: lastX,
           stiff: d.stiff,
@@ -342,7 +342,7 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
       // The step size itself may have turned NaN first: then name the last time reached.
       const known = Number.isFinite(err.t);
       const time = known ? err.t : lastX;
-      throw new RunFailure(
+      return simulationFailed(
         `cannot simulate experiment ${drive.name}: ${what} ${known ? 'at' : 'after'} t=${Number(time.toPrecision(6))} ${model.timeUnit} (parameters ${formatParameters(compiled, p)}); check the equations for division by zero or overflow at these values`,
         { experiment: drive.name, time, parameters: parameterRecord(compiled, p) },
       );
@@ -382,12 +382,15 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
   }
 
   return {
-    experiment: drive.name,
-    time: drive.time,
-    warnings: warnings.length ? warnings : undefined,
-    states,
-    outputs,
-    sensitivities: slots ? { slots: [...slots], outputs: sensOut! } : undefined,
-    stats,
+    ok: true,
+    result: {
+      experiment: drive.name,
+      time: drive.time,
+      warnings: warnings.length ? warnings : undefined,
+      states,
+      outputs,
+      sensitivities: slots ? { slots: [...slots], outputs: sensOut! } : undefined,
+      stats,
+    },
   };
 }
