@@ -125,25 +125,7 @@ function fromTheta(e: { scale: 'log' | 'linear' }, th: number): number {
  * model order; `sigmas` the initial weighting per output.
  */
 export function buildProblem(compiled: CompiledModel, fitData: readonly ExperimentData[], sigmas: readonly number[], sim: SimulatorFns): EstimationProblem {
-  const model = compiled.model;
-  const free = model.parameters.filter((p): p is FreeParameterSpec => p.kind === 'free');
-  const entries: ThetaEntry[] = [];
-  for (const p of free) {
-    const slot = compiled.paramSlot.get(p.name);
-    if (slot === undefined) throw new Error(`compiled model has no slot for parameter ${p.name}`);
-    const base = { parameter: p.name, slot, scale: p.scale, min: p.min, max: p.max };
-    const bounds = p.scale === 'log' ? { lower: Math.log(p.min), upper: Math.log(p.max) } : { lower: p.min, upper: p.max };
-    if (p.perExperiment) {
-      fitData.forEach((d, fitIndex) => {
-        const name = `${p.name}@${d.experiment.name}`;
-        // A start given with --set name@experiment=value applies to that copy only.
-        const start = model.overrides[name] ?? p.start;
-        entries.push({ ...base, ...bounds, name, experiment: d.experiment.name, fitIndex, start });
-      });
-    } else {
-      entries.push({ ...base, ...bounds, name: p.name, start: p.start });
-    }
-  }
+  const { free, entries } = thetaEntries(compiled, fitData);
   const nTheta = entries.length;
   // The sensitivity slots (same in every experiment: the free parameters' slots) and, per fit
   // experiment, the theta column of each slot.
@@ -152,20 +134,7 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
     free.map((p) => entries.findIndex((e) => e.parameter === p.name && (e.fitIndex === undefined || e.fitIndex === fitIndex))),
   );
   const baseParams = fitData.map((d) => sim.parameterVector(compiled, d.index));
-
-  const blocks: ResidualBlock[] = [];
-  let n = 0;
-  fitData.forEach((d, fitIndex) => {
-    d.outputs.forEach((meas, output) => {
-      if (!meas) return;
-      const idx: number[] = [];
-      for (let i = 0; i < meas.length; i++) if (!Number.isNaN(meas[i])) idx.push(i);
-      if (idx.length === 0) return;
-      blocks.push({ fitIndex, output, samples: Int32Array.from(idx), offset: n });
-      n += idx.length;
-    });
-  });
-  const nResiduals = n;
+  const { blocks, nResiduals } = residualBlocks(fitData);
   let weights = sigmas.slice();
 
   const counters = { simulations: 0, sensitivitySimulations: 0 };
@@ -228,21 +197,7 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
       if (lastJacobianTheta && sameTheta(lastJacobianTheta, theta)) kept = lastPlain;
       return r;
     },
-    reweighted(residuals, jacobian, from) {
-      const r = Float64Array.from(residuals);
-      const J = toRowMajor(jacobian, r.length, nTheta).clone();
-      const data = J.data;
-      for (const b of blocks) {
-        const f = from[b.output] / weights[b.output];
-        if (f === 1) continue;
-        for (let s = 0; s < b.samples.length; s++) {
-          const i = b.offset + s;
-          r[i] *= f;
-          for (let k = i * nTheta; k < (i + 1) * nTheta; k++) data[k] *= f;
-        }
-      }
-      return { residuals: r, jacobian: J };
-    },
+    reweighted: (residuals, jacobian, from) => rescaledRows(blocks, nTheta, residuals, jacobian, from, weights),
     residualsAndJacobian(theta) {
       lastJacobianTheta = theta.slice();
       if (lastPlain && sameTheta(lastPlain.theta, theta)) kept = lastPlain;
@@ -253,30 +208,13 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
         counters.sensitivitySimulations++;
         const res = trialSimulation(fitIndex, p, { sensitivitySlots: slots });
         if (!res || !fillResiduals(fitIndex, res, r)) return null;
-        const sens = res.sensitivities;
-        if (!sens) throw new Error('the simulator returned no sensitivities');
-        const q = slots.length;
         // d value / d theta per sensitivity column (1, or the value itself in log coordinates).
         const cols = columnOf[fitIndex];
         const chain = cols.map((c) => (c < 0 ? 0 : entries[c].scale === 'log' ? p[entries[c].slot] : 1));
-        for (const b of blocks) {
-          if (b.fitIndex !== fitIndex) continue;
-          const dy = sens.outputs[b.output];
-          const w = 1 / weights[b.output];
-          for (let s = 0; s < b.samples.length; s++) {
-            const i = b.samples[s];
-            const row = (b.offset + s) * nTheta;
-            for (let k = 0; k < q; k++) {
-              const c = cols[k];
-              if (c < 0) continue;
-              const v = -dy[i * q + k] * chain[k] * w;
-              if (!Number.isFinite(v)) {
-                problem.lastFailure = { message: `the output sensitivities are not finite in experiment ${fitData[fitIndex].experiment.name}`, details: {} };
-                return null;
-              }
-              J[row + c] = v;
-            }
-          }
+        const failure = fillJacobianRows(fitData[fitIndex], fitIndex, res, { blocks, weights, nTheta, cols, chain }, J);
+        if (failure) {
+          problem.lastFailure = failure;
+          return null;
         }
       }
       return { residuals: r, jacobian: J };
@@ -284,30 +222,143 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
     counters,
   };
 
+  /** The weighted residuals of one experiment into r; false (and the words kept) when one is not finite. */
   function fillResiduals(fitIndex: number, res: SimulationResult, r: Float64Array): boolean {
-    const d = fitData[fitIndex];
-    for (const b of blocks) {
-      if (b.fitIndex !== fitIndex) continue;
-      const meas = d.outputs[b.output]!;
-      const y = res.outputs[b.output];
-      const w = 1 / weights[b.output];
-      for (let s = 0; s < b.samples.length; s++) {
-        const i = b.samples[s];
-        const v = (meas[i] - y[i]) * w;
-        if (!Number.isFinite(v)) {
-          problem.lastFailure = {
-            message: `the simulated output ${compiled.model.outputs[b.output].name} is not finite at time ${d.time[i]} in experiment ${d.experiment.name}`,
-            details: {},
-          };
-          return false;
-        }
-        r[b.offset + s] = v;
-      }
-    }
-    return true;
+    const failure = fillResidualRows(compiled, fitData[fitIndex], fitIndex, res, blocks, weights, r);
+    if (failure) problem.lastFailure = failure;
+    return failure === undefined;
   }
 
   return problem;
+}
+
+/** (measured - simulated) / sigma for the blocks of experiment `fitIndex`; the failure when one is not finite. */
+function fillResidualRows(
+  compiled: CompiledModel,
+  d: ExperimentData,
+  fitIndex: number,
+  res: SimulationResult,
+  blocks: readonly ResidualBlock[],
+  weights: readonly number[],
+  r: Float64Array,
+): SimulationFailure | undefined {
+  for (const b of blocks) {
+    if (b.fitIndex !== fitIndex) continue;
+    const meas = d.outputs[b.output]!;
+    const y = res.outputs[b.output];
+    const w = 1 / weights[b.output];
+    for (let s = 0; s < b.samples.length; s++) {
+      const i = b.samples[s];
+      const v = (meas[i] - y[i]) * w;
+      if (!Number.isFinite(v)) {
+        return {
+          message: `the simulated output ${compiled.model.outputs[b.output].name} is not finite at time ${d.time[i]} in experiment ${d.experiment.name}`,
+          details: {},
+        };
+      }
+      r[b.offset + s] = v;
+    }
+  }
+  return undefined;
+}
+
+/** How the sensitivity columns of one experiment map onto theta: column per slot (-1: none) and d value / d theta. */
+interface JacobianLayout {
+  blocks: readonly ResidualBlock[];
+  weights: readonly number[];
+  nTheta: number;
+  cols: readonly number[];
+  chain: readonly number[];
+}
+
+/** d r / d theta = -(d y / d value) (d value / d theta) / sigma for the rows of experiment `fitIndex`. */
+function fillJacobianRows(d: ExperimentData, fitIndex: number, res: SimulationResult, layout: JacobianLayout, J: Float64Array): SimulationFailure | undefined {
+  const sens = res.sensitivities;
+  if (!sens) throw new Error('the simulator returned no sensitivities');
+  const { blocks, weights, nTheta, cols, chain } = layout;
+  const q = cols.length;
+  for (const b of blocks) {
+    if (b.fitIndex !== fitIndex) continue;
+    const dy = sens.outputs[b.output];
+    const w = 1 / weights[b.output];
+    for (let s = 0; s < b.samples.length; s++) {
+      const i = b.samples[s];
+      const row = (b.offset + s) * nTheta;
+      for (let k = 0; k < q; k++) {
+        const c = cols[k];
+        if (c < 0) continue;
+        const v = -dy[i * q + k] * chain[k] * w;
+        if (!Number.isFinite(v)) return { message: `the output sensitivities are not finite in experiment ${d.experiment.name}`, details: {} };
+        J[row + c] = v;
+      }
+    }
+  }
+  return undefined;
+}
+
+/** Residuals and Jacobian computed with the weighting `from`, rescaled row by row to `weights`. */
+function rescaledRows(
+  blocks: readonly ResidualBlock[],
+  nTheta: number,
+  residuals: Float64Array,
+  jacobian: JacobianInput,
+  from: readonly number[],
+  weights: readonly number[],
+): { residuals: Float64Array; jacobian: RowMajorMatrix } {
+  const r = Float64Array.from(residuals);
+  const J = toRowMajor(jacobian, r.length, nTheta).clone();
+  const data = J.data;
+  for (const b of blocks) {
+    const f = from[b.output] / weights[b.output];
+    if (f === 1) continue;
+    for (let s = 0; s < b.samples.length; s++) {
+      const i = b.offset + s;
+      r[i] *= f;
+      for (let k = i * nTheta; k < (i + 1) * nTheta; k++) data[k] *= f;
+    }
+  }
+  return { residuals: r, jacobian: J };
+}
+
+/** One theta entry per free parameter, and one per fit experiment for a per-experiment parameter. */
+function thetaEntries(compiled: CompiledModel, fitData: readonly ExperimentData[]): { free: FreeParameterSpec[]; entries: ThetaEntry[] } {
+  const model = compiled.model;
+  const free = model.parameters.filter((p): p is FreeParameterSpec => p.kind === 'free');
+  const entries: ThetaEntry[] = [];
+  for (const p of free) {
+    const slot = compiled.paramSlot.get(p.name);
+    if (slot === undefined) throw new Error(`compiled model has no slot for parameter ${p.name}`);
+    const base = { parameter: p.name, slot, scale: p.scale, min: p.min, max: p.max };
+    const bounds = p.scale === 'log' ? { lower: Math.log(p.min), upper: Math.log(p.max) } : { lower: p.min, upper: p.max };
+    if (p.perExperiment) {
+      fitData.forEach((d, fitIndex) => {
+        const name = `${p.name}@${d.experiment.name}`;
+        // A start given with --set name@experiment=value applies to that copy only.
+        const start = model.overrides[name] ?? p.start;
+        entries.push({ ...base, ...bounds, name, experiment: d.experiment.name, fitIndex, start });
+      });
+    } else {
+      entries.push({ ...base, ...bounds, name: p.name, start: p.start });
+    }
+  }
+  return { free, entries };
+}
+
+/** Where each residual comes from: per fit experiment and logged output, the samples with a measured value. */
+function residualBlocks(fitData: readonly ExperimentData[]): { blocks: ResidualBlock[]; nResiduals: number } {
+  const blocks: ResidualBlock[] = [];
+  let n = 0;
+  fitData.forEach((d, fitIndex) => {
+    d.outputs.forEach((meas, output) => {
+      if (!meas) return;
+      const idx: number[] = [];
+      for (let i = 0; i < meas.length; i++) if (!Number.isNaN(meas[i])) idx.push(i);
+      if (idx.length === 0) return;
+      blocks.push({ fitIndex, output, samples: Int32Array.from(idx), offset: n });
+      n += idx.length;
+    });
+  });
+  return { blocks, nResiduals: n };
 }
 
 /** Sum of squared (weighted) residuals per output over the fit experiments, and sample counts. */
