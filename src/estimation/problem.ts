@@ -14,15 +14,22 @@
  * column in the rows of its own experiment.
  */
 import { type JacobianInput, type RowMajorMatrix, toRowMajor } from './solver/row-major.js';
-import { RunFailure } from '../errors.js';
 import type { CompiledModel } from '../model/compiled-types.js';
 import type { ExperimentData } from '../data/types.js';
 import type { FreeParameterSpec } from '../model/types.js';
-import type { SimulationOptions, SimulationResult } from '../simulation/types.js';
+import { outcomeOfThrowing } from '../simulation/outcome.js';
+import type { SimulationFailure, SimulationOptions, SimulationOutcome, SimulationResult } from '../simulation/types.js';
 
 /** The simulator's entry points, passed in so that the problem is a pure function of its parts. */
 export interface SimulatorFns {
+  /** Throws RunFailure when the simulation cannot finish (simulateAll, and the fit's own uses). */
   simulateExperiment(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationResult;
+  /**
+   * The same answering a failure as a value (simulation/simulate.ts trySimulateExperiment): the
+   * trial simulations use it. When absent, it is derived from `simulateExperiment` by
+   * `outcomeOfThrowing` (simulation/outcome.ts), the one place a RunFailure becomes a value.
+   */
+  trySimulateExperiment?(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationOutcome;
   /** Declared values, then the experiment's `set`, then `values` and `model.overrides`. */
   parameterVector(compiled: CompiledModel, experimentIndex: number, values?: Record<string, number>): Float64Array;
 }
@@ -76,7 +83,11 @@ export interface EstimationProblem {
   thetaOf(values: readonly number[]): number[];
   /** The compiled model's parameter vector for fit experiment `fitIndex` at theta. */
   paramsFor(theta: readonly number[], fitIndex: number): Float64Array;
-  /** Weighted residuals, or null when a simulation failed (the optimiser rejects the step). */
+  /**
+   * Weighted residuals, or null when a simulation failed (the optimiser rejects the step; the words
+   * are in `lastFailure`). Null rather than the solver's `{ failed: why }`: the solver's own words
+   * for a failure without words are part of the fit's messages users know.
+   */
   residuals(theta: readonly number[]): Float64Array | null;
   residualsAndJacobian(theta: readonly number[]): ResidualsAndJacobian | null;
   /**
@@ -92,8 +103,8 @@ export interface EstimationProblem {
    */
   reweighted(residuals: Float64Array, jacobian: JacobianInput, from: readonly number[]): { residuals: Float64Array; jacobian: RowMajorMatrix };
   counters: { simulations: number; sensitivitySimulations: number };
-  /** The last simulation failure seen (for messages when every trial fails). */
-  lastFailure?: RunFailure;
+  /** The last simulation failure seen (for messages when every trial fails, or the start does). */
+  lastFailure?: SimulationFailure;
 }
 
 function sameTheta(a: readonly number[], b: readonly number[]): boolean {
@@ -114,25 +125,7 @@ function fromTheta(e: { scale: 'log' | 'linear' }, th: number): number {
  * model order; `sigmas` the initial weighting per output.
  */
 export function buildProblem(compiled: CompiledModel, fitData: readonly ExperimentData[], sigmas: readonly number[], sim: SimulatorFns): EstimationProblem {
-  const model = compiled.model;
-  const free = model.parameters.filter((p): p is FreeParameterSpec => p.kind === 'free');
-  const entries: ThetaEntry[] = [];
-  for (const p of free) {
-    const slot = compiled.paramSlot.get(p.name);
-    if (slot === undefined) throw new Error(`compiled model has no slot for parameter ${p.name}`);
-    const base = { parameter: p.name, slot, scale: p.scale, min: p.min, max: p.max };
-    const bounds = p.scale === 'log' ? { lower: Math.log(p.min), upper: Math.log(p.max) } : { lower: p.min, upper: p.max };
-    if (p.perExperiment) {
-      fitData.forEach((d, fitIndex) => {
-        const name = `${p.name}@${d.experiment.name}`;
-        // A start given with --set name@experiment=value applies to that copy only.
-        const start = model.overrides[name] ?? p.start;
-        entries.push({ ...base, ...bounds, name, experiment: d.experiment.name, fitIndex, start });
-      });
-    } else {
-      entries.push({ ...base, ...bounds, name: p.name, start: p.start });
-    }
-  }
+  const { free, entries } = thetaEntries(compiled, fitData);
   const nTheta = entries.length;
   // The sensitivity slots (same in every experiment: the free parameters' slots) and, per fit
   // experiment, the theta column of each slot.
@@ -141,20 +134,7 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
     free.map((p) => entries.findIndex((e) => e.parameter === p.name && (e.fitIndex === undefined || e.fitIndex === fitIndex))),
   );
   const baseParams = fitData.map((d) => sim.parameterVector(compiled, d.index));
-
-  const blocks: ResidualBlock[] = [];
-  let n = 0;
-  fitData.forEach((d, fitIndex) => {
-    d.outputs.forEach((meas, output) => {
-      if (!meas) return;
-      const idx: number[] = [];
-      for (let i = 0; i < meas.length; i++) if (!Number.isNaN(meas[i])) idx.push(i);
-      if (idx.length === 0) return;
-      blocks.push({ fitIndex, output, samples: Int32Array.from(idx), offset: n });
-      n += idx.length;
-    });
-  });
-  const nResiduals = n;
+  const { blocks, nResiduals } = residualBlocks(fitData);
   let weights = sigmas.slice();
 
   const counters = { simulations: 0, sensitivitySimulations: 0 };
@@ -165,15 +145,13 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
   let lastJacobianTheta: number[] | undefined;
   let kept: { theta: number[]; results: SimulationResult[] } | undefined;
 
-  /** A simulation at a trial point: a RunFailure (diverged, stiff...) is a failed trial, kept for its words. */
+  const trySimulate = sim.trySimulateExperiment ? sim.trySimulateExperiment.bind(sim) : outcomeOfThrowing(sim.simulateExperiment.bind(sim));
+  /** A simulation at a trial point: a failure (diverged, stiff...) is a failed trial, kept for its words. */
   const trialSimulation = (fitIndex: number, p: Float64Array, options?: { sensitivitySlots: readonly number[] }): SimulationResult | null => {
-    try {
-      return sim.simulateExperiment(compiled, fitData[fitIndex], p, options);
-    } catch (err) {
-      if (!(err instanceof RunFailure)) throw err;
-      problem.lastFailure = err;
-      return null;
-    }
+    const outcome = trySimulate(compiled, fitData[fitIndex], p, options);
+    if (outcome.ok) return outcome.result;
+    problem.lastFailure = outcome.failure;
+    return null;
   };
 
   const problem: EstimationProblem = {
@@ -219,21 +197,7 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
       if (lastJacobianTheta && sameTheta(lastJacobianTheta, theta)) kept = lastPlain;
       return r;
     },
-    reweighted(residuals, jacobian, from) {
-      const r = Float64Array.from(residuals);
-      const J = toRowMajor(jacobian, r.length, nTheta).clone();
-      const data = J.data;
-      for (const b of blocks) {
-        const f = from[b.output] / weights[b.output];
-        if (f === 1) continue;
-        for (let s = 0; s < b.samples.length; s++) {
-          const i = b.offset + s;
-          r[i] *= f;
-          for (let k = i * nTheta; k < (i + 1) * nTheta; k++) data[k] *= f;
-        }
-      }
-      return { residuals: r, jacobian: J };
-    },
+    reweighted: (residuals, jacobian, from) => rescaledRows(blocks, nTheta, residuals, jacobian, from, weights),
     residualsAndJacobian(theta) {
       lastJacobianTheta = theta.slice();
       if (lastPlain && sameTheta(lastPlain.theta, theta)) kept = lastPlain;
@@ -244,30 +208,13 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
         counters.sensitivitySimulations++;
         const res = trialSimulation(fitIndex, p, { sensitivitySlots: slots });
         if (!res || !fillResiduals(fitIndex, res, r)) return null;
-        const sens = res.sensitivities;
-        if (!sens) throw new Error('the simulator returned no sensitivities');
-        const q = slots.length;
         // d value / d theta per sensitivity column (1, or the value itself in log coordinates).
         const cols = columnOf[fitIndex];
         const chain = cols.map((c) => (c < 0 ? 0 : entries[c].scale === 'log' ? p[entries[c].slot] : 1));
-        for (const b of blocks) {
-          if (b.fitIndex !== fitIndex) continue;
-          const dy = sens.outputs[b.output];
-          const w = 1 / weights[b.output];
-          for (let s = 0; s < b.samples.length; s++) {
-            const i = b.samples[s];
-            const row = (b.offset + s) * nTheta;
-            for (let k = 0; k < q; k++) {
-              const c = cols[k];
-              if (c < 0) continue;
-              const v = -dy[i * q + k] * chain[k] * w;
-              if (!Number.isFinite(v)) {
-                problem.lastFailure = new RunFailure(`the output sensitivities are not finite in experiment ${fitData[fitIndex].experiment.name}`);
-                return null;
-              }
-              J[row + c] = v;
-            }
-          }
+        const failure = fillJacobianRows(fitData[fitIndex], fitIndex, res, { blocks, weights, nTheta, cols, chain }, J);
+        if (failure) {
+          problem.lastFailure = failure;
+          return null;
         }
       }
       return { residuals: r, jacobian: J };
@@ -275,29 +222,143 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
     counters,
   };
 
+  /** The weighted residuals of one experiment into r; false (and the words kept) when one is not finite. */
   function fillResiduals(fitIndex: number, res: SimulationResult, r: Float64Array): boolean {
-    const d = fitData[fitIndex];
-    for (const b of blocks) {
-      if (b.fitIndex !== fitIndex) continue;
-      const meas = d.outputs[b.output]!;
-      const y = res.outputs[b.output];
-      const w = 1 / weights[b.output];
-      for (let s = 0; s < b.samples.length; s++) {
-        const i = b.samples[s];
-        const v = (meas[i] - y[i]) * w;
-        if (!Number.isFinite(v)) {
-          problem.lastFailure = new RunFailure(
-            `the simulated output ${compiled.model.outputs[b.output].name} is not finite at time ${d.time[i]} in experiment ${d.experiment.name}`,
-          );
-          return false;
-        }
-        r[b.offset + s] = v;
-      }
-    }
-    return true;
+    const failure = fillResidualRows(compiled, fitData[fitIndex], fitIndex, res, blocks, weights, r);
+    if (failure) problem.lastFailure = failure;
+    return failure === undefined;
   }
 
   return problem;
+}
+
+/** (measured - simulated) / sigma for the blocks of experiment `fitIndex`; the failure when one is not finite. */
+function fillResidualRows(
+  compiled: CompiledModel,
+  d: ExperimentData,
+  fitIndex: number,
+  res: SimulationResult,
+  blocks: readonly ResidualBlock[],
+  weights: readonly number[],
+  r: Float64Array,
+): SimulationFailure | undefined {
+  for (const b of blocks) {
+    if (b.fitIndex !== fitIndex) continue;
+    const meas = d.outputs[b.output]!;
+    const y = res.outputs[b.output];
+    const w = 1 / weights[b.output];
+    for (let s = 0; s < b.samples.length; s++) {
+      const i = b.samples[s];
+      const v = (meas[i] - y[i]) * w;
+      if (!Number.isFinite(v)) {
+        return {
+          message: `the simulated output ${compiled.model.outputs[b.output].name} is not finite at time ${d.time[i]} in experiment ${d.experiment.name}`,
+          details: {},
+        };
+      }
+      r[b.offset + s] = v;
+    }
+  }
+  return undefined;
+}
+
+/** How the sensitivity columns of one experiment map onto theta: column per slot (-1: none) and d value / d theta. */
+interface JacobianLayout {
+  blocks: readonly ResidualBlock[];
+  weights: readonly number[];
+  nTheta: number;
+  cols: readonly number[];
+  chain: readonly number[];
+}
+
+/** d r / d theta = -(d y / d value) (d value / d theta) / sigma for the rows of experiment `fitIndex`. */
+function fillJacobianRows(d: ExperimentData, fitIndex: number, res: SimulationResult, layout: JacobianLayout, J: Float64Array): SimulationFailure | undefined {
+  const sens = res.sensitivities;
+  if (!sens) throw new Error('the simulator returned no sensitivities');
+  const { blocks, weights, nTheta, cols, chain } = layout;
+  const q = cols.length;
+  for (const b of blocks) {
+    if (b.fitIndex !== fitIndex) continue;
+    const dy = sens.outputs[b.output];
+    const w = 1 / weights[b.output];
+    for (let s = 0; s < b.samples.length; s++) {
+      const i = b.samples[s];
+      const row = (b.offset + s) * nTheta;
+      for (let k = 0; k < q; k++) {
+        const c = cols[k];
+        if (c < 0) continue;
+        const v = -dy[i * q + k] * chain[k] * w;
+        if (!Number.isFinite(v)) return { message: `the output sensitivities are not finite in experiment ${d.experiment.name}`, details: {} };
+        J[row + c] = v;
+      }
+    }
+  }
+  return undefined;
+}
+
+/** Residuals and Jacobian computed with the weighting `from`, rescaled row by row to `weights`. */
+function rescaledRows(
+  blocks: readonly ResidualBlock[],
+  nTheta: number,
+  residuals: Float64Array,
+  jacobian: JacobianInput,
+  from: readonly number[],
+  weights: readonly number[],
+): { residuals: Float64Array; jacobian: RowMajorMatrix } {
+  const r = Float64Array.from(residuals);
+  const J = toRowMajor(jacobian, r.length, nTheta).clone();
+  const data = J.data;
+  for (const b of blocks) {
+    const f = from[b.output] / weights[b.output];
+    if (f === 1) continue;
+    for (let s = 0; s < b.samples.length; s++) {
+      const i = b.offset + s;
+      r[i] *= f;
+      for (let k = i * nTheta; k < (i + 1) * nTheta; k++) data[k] *= f;
+    }
+  }
+  return { residuals: r, jacobian: J };
+}
+
+/** One theta entry per free parameter, and one per fit experiment for a per-experiment parameter. */
+function thetaEntries(compiled: CompiledModel, fitData: readonly ExperimentData[]): { free: FreeParameterSpec[]; entries: ThetaEntry[] } {
+  const model = compiled.model;
+  const free = model.parameters.filter((p): p is FreeParameterSpec => p.kind === 'free');
+  const entries: ThetaEntry[] = [];
+  for (const p of free) {
+    const slot = compiled.paramSlot.get(p.name);
+    if (slot === undefined) throw new Error(`compiled model has no slot for parameter ${p.name}`);
+    const base = { parameter: p.name, slot, scale: p.scale, min: p.min, max: p.max };
+    const bounds = p.scale === 'log' ? { lower: Math.log(p.min), upper: Math.log(p.max) } : { lower: p.min, upper: p.max };
+    if (p.perExperiment) {
+      fitData.forEach((d, fitIndex) => {
+        const name = `${p.name}@${d.experiment.name}`;
+        // A start given with --set name@experiment=value applies to that copy only.
+        const start = model.overrides[name] ?? p.start;
+        entries.push({ ...base, ...bounds, name, experiment: d.experiment.name, fitIndex, start });
+      });
+    } else {
+      entries.push({ ...base, ...bounds, name: p.name, start: p.start });
+    }
+  }
+  return { free, entries };
+}
+
+/** Where each residual comes from: per fit experiment and logged output, the samples with a measured value. */
+function residualBlocks(fitData: readonly ExperimentData[]): { blocks: ResidualBlock[]; nResiduals: number } {
+  const blocks: ResidualBlock[] = [];
+  let n = 0;
+  fitData.forEach((d, fitIndex) => {
+    d.outputs.forEach((meas, output) => {
+      if (!meas) return;
+      const idx: number[] = [];
+      for (let i = 0; i < meas.length; i++) if (!Number.isNaN(meas[i])) idx.push(i);
+      if (idx.length === 0) return;
+      blocks.push({ fitIndex, output, samples: Int32Array.from(idx), offset: n });
+      n += idx.length;
+    });
+  });
+  return { blocks, nResiduals: n };
 }
 
 /** Sum of squared (weighted) residuals per output over the fit experiments, and sample counts. */

@@ -2,7 +2,8 @@
  * How a fit poses its estimation problem to the generic solver: the residual callbacks, bounds,
  * per-entry step limits and the stopping and evaluation settings that differ between ODE and static
  * models. One place, so that the fit and the bench's solver row (bench/fd-baseline.ts) solve the
- * very same problem.
+ * very same problem. Besides the problem and the options it answers the `regime`: the same choices
+ * as a plain record, for the fit to copy into its result (and fit.json to print).
  */
 import type { EstimationProblem } from './problem.js';
 import { SOLVER_DEFAULTS } from './solver/defaults.js';
@@ -23,7 +24,53 @@ const ODE_NOISE_STEP_IN_STANDARD_ERRORS = 0.05;
 
 export type FitSolverSettings = Pick<SolverOptions, 'costTolerance' | 'noisyCost' | 'costNoiseLimit' | 'speculativeJacobian'>;
 
-export function solverSetup(problem: EstimationProblem): { lsq: LeastSquaresProblem; settings: FitSolverSettings } {
+/**
+ * The solver regime chosen for a fit's problem, in plain data (finite numbers, no functions): what
+ * solverSetup decided and the tolerances in effect. Options the fit passes itself (iteration limit,
+ * warm starts) are not part of it.
+ */
+export interface SolverRegime {
+  /** 'ode': the model has states (simulations integrate); 'static': outputs are row functions. */
+  model: 'ode' | 'static';
+  /** Residuals minus theta entries: what decides the relaxed stops. */
+  degreesOfFreedom: number;
+  /** Long ODE log (degrees of freedom >= 1000): relaxed cost tolerance and the noise stops. */
+  relaxedStops: boolean;
+  /** SolverOptions.noisyCost: the stops for a cost with evaluation noise (solver/types.ts). */
+  noisyCost: boolean;
+  /** SolverOptions.speculativeJacobian: trusted Gauss-Newton trials simulated with sensitivities at once. */
+  speculativeJacobian: boolean;
+  /** Theta entries with a per-step cap (log-scale entries of an ODE model); 0 when none. */
+  stepCaps: number;
+  /** Largest factor by which a capped entry may change in one trial step (only when stepCaps > 0). */
+  stepCapFactor?: number;
+  /** Relative cost-change tolerance in effect (the solver's default unless relaxed). */
+  costTolerance: number;
+  /** Upper limit on the cost noise the noisyCost stops use (only when noisyCost). */
+  costNoiseLimit?: number;
+  /** Step and gradient tolerances in effect (the solver's defaults: the fit does not change them). */
+  stepTolerance: number;
+  gradientTolerance: number;
+}
+
+function regimeOf(ode: boolean, dof: number, relaxed: boolean, lsq: LeastSquaresProblem, settings: FitSolverSettings): SolverRegime {
+  const stepCaps = lsq.maxStep ? Array.from(lsq.maxStep).filter((m) => Number.isFinite(m)).length : 0;
+  return {
+    model: ode ? 'ode' : 'static',
+    degreesOfFreedom: dof,
+    relaxedStops: relaxed,
+    noisyCost: settings.noisyCost === true,
+    speculativeJacobian: settings.speculativeJacobian === true,
+    stepCaps,
+    ...(stepCaps > 0 ? { stepCapFactor: LOG_STEP_FACTOR } : {}),
+    costTolerance: settings.costTolerance ?? SOLVER_DEFAULTS.costTolerance,
+    ...(settings.costNoiseLimit !== undefined ? { costNoiseLimit: settings.costNoiseLimit } : {}),
+    stepTolerance: SOLVER_DEFAULTS.stepTolerance,
+    gradientTolerance: SOLVER_DEFAULTS.gradientTolerance,
+  };
+}
+
+export function solverSetup(problem: EstimationProblem): { lsq: LeastSquaresProblem; settings: FitSolverSettings; regime: SolverRegime } {
   const ode = problem.compiled.nStates > 0;
   // A log-scale entry moves by at most a factor LOG_STEP_FACTOR per trial step. The trust region
   // measures a step by its predicted effect on the residuals (column scaling), so a parameter the
@@ -58,13 +105,11 @@ export function solverSetup(problem: EstimationProblem): { lsq: LeastSquaresProb
     noisyCost: true,
     costNoiseLimit: ODE_NOISE_STEP_IN_STANDARD_ERRORS ** 2 / dof,
   });
-  return {
-    lsq,
-    settings: {
-      ...(relaxed ? relaxedStops() : {}),
-      // A simulation with sensitivities costs two to three plain ones: far from the optimum, a
-      // trial the linear model vouches for is simulated with them straight away (solver/types.ts).
-      ...(ode ? { speculativeJacobian: true } : {}),
-    },
+  const settings: FitSolverSettings = {
+    ...(relaxed ? relaxedStops() : {}),
+    // A simulation with sensitivities costs two to three plain ones: far from the optimum, a
+    // trial the linear model vouches for is simulated with them straight away (solver/types.ts).
+    ...(ode ? { speculativeJacobian: true } : {}),
   };
+  return { lsq, settings, regime: regimeOf(ode, dof, relaxed, lsq, settings) };
 }

@@ -15,14 +15,18 @@
  * = 1), and S jumps there: S+ = S- + (f- - f+) in that delay's column, where f- is the right-hand
  * side with the input's old value and f+ with its new one, both at x(tau). This is exact for the
  * sample times (a sample exactly at a jump is a set of measure zero and takes S+).
+ *
+ * The pieces: integration-run.ts (working set, right-hand side, samples, jump condition),
+ * segments.ts (restarts and breakpoints), integration-failures.ts (the words of a failure).
  */
 import { Outcome, Solver } from './vendor/odex.js';
-import { RunFailure } from '../errors.js';
-import type { CompiledModel, SensitivitySystem } from '../model/compiled-types.js';
-import { InputTrack } from './input-track.js';
+import type { CompiledModel } from '../model/compiled-types.js';
+import { nonFiniteInitial, nonFiniteState, stepLimitReached } from './integration-failures.js';
+import { applyJumpCondition, holdValueIn, NonFiniteState, prepareRun, rightHandSide, sampleRecorder, type IntegrationRun } from './integration-run.js';
+import { segmentBounds, stepEnds } from './segments.js';
 import { diagnoseStepLimit, stiffnessWarning } from './stiffness.js';
-import { tolerances } from './tolerances.js';
-import type { SimulationOptions, SimulationResult, SimulationStats } from './types.js';
+import { tolerances, type Tolerances } from './tolerances.js';
+import type { SimulationOptions, SimulationOutcome } from './types.js';
 
 /** What drives one simulation: sample times, the integration start, and the logged inputs. */
 export interface Drive {
@@ -42,53 +46,6 @@ export function defaultMaxSteps(samplesInSegment: number): number {
   return Math.max(100_000, 8 * samplesInSegment);
 }
 
-class NonFiniteState extends Error {
-  constructor(readonly t: number, readonly z: Float64Array, readonly dz: Float64Array) {
-    super('non-finite');
-  }
-}
-
-function formatParameters(compiled: CompiledModel, p: Float64Array): string {
-  const names = [...compiled.paramSlot.entries()].sort((a, b) => a[1] - b[1]);
-  const parts = names.map(([name, slot]) => `${name}=${Number(p[slot].toPrecision(6))}`);
-  return parts.length > 12 ? parts.slice(0, 12).join(', ') + `, ... (${parts.length} in all)` : parts.join(', ');
-}
-
-function parameterRecord(compiled: CompiledModel, p: Float64Array): Record<string, number> {
-  const out: Record<string, number> = {};
-  for (const [name, slot] of compiled.paramSlot) out[name] = p[slot];
-  return out;
-}
-
-/** Delay of each input in model time units: a number, or the value of the named parameter. */
-export function inputDelays(compiled: CompiledModel, p: Float64Array): number[] {
-  return compiled.model.inputs.map((inp) => {
-    if (inp.delay === undefined) return 0;
-    if (typeof inp.delay === 'number') return inp.delay;
-    const slot = compiled.paramSlot.get(inp.delay);
-    if (slot === undefined) throw new RangeError(`input ${inp.name}: delay parameter ${inp.delay} has no slot`);
-    return p[slot];
-  });
-}
-
-/** The union of increasing arrays, increasing, without duplicates. */
-export function mergeSorted(lists: readonly Float64Array[]): Float64Array {
-  let out: Float64Array = new Float64Array(0);
-  for (const b of lists) {
-    const a = out;
-    const r = new Float64Array(a.length + b.length);
-    let i = 0;
-    let j = 0;
-    let c = 0;
-    while (i < a.length || j < b.length) {
-      const v = j >= b.length || (i < a.length && a[i] <= b[j]) ? a[i++] : b[j++];
-      if (c === 0 || v !== r[c - 1]) r[c++] = v;
-    }
-    out = r.subarray(0, c);
-  }
-  return out;
-}
-
 /**
  * Solvers reused across simulations, one per system size: a solver keeps its work arrays (about
  * 2*km^2 rows of the system size), so reusing it spares their allocation and collection on every
@@ -105,166 +62,86 @@ function solverOfSize(N: number): Solver {
   return s;
 }
 
-/**
- * Whether the sensitivities take part in the step-size control. Off: partial error control (the
- * steps follow the states; see tolerances.ts for the measurement behind that choice).
- */
-export let sensitivityErrorControl = true;
-/** For tests and measurements only: switch the sensitivity error control on or off. */
-export function setSensitivityErrorControl(on: boolean): void {
-  sensitivityErrorControl = on;
+/** Where the recording of samples stands; shared by the observer and the segment loop. */
+interface Cursor {
+  /** Next sample to record, and the end (exclusive) of the current segment's samples. */
+  m: number;
+  end: number;
+  /** Last step end reached, its z, and the steps of the current segment (for failure words). */
+  lastX: number;
+  lastZ: Float64Array;
+  stepsInSegment: number;
 }
 
-export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationResult {
-  const model = compiled.model;
-  const n = compiled.nStates;
-  const nIn = compiled.nInputs;
-  const nOut = compiled.nOutputs;
-  const M = drive.time.length;
-  const slots = options.sensitivitySlots;
-  const q = slots ? slots.length : 0;
-  const sens: SensitivitySystem | undefined = slots && q > 0 ? compiled.sensitivity(slots) : undefined;
-  const N = n * (1 + (sens ? q : 0));
-  const stats: SimulationStats = { rhsEvaluations: 0, steps: 0, rejectedSteps: 0, segments: 0 };
-
-  const delays = inputDelays(compiled, p);
-  const tracks = model.inputs.map((inp, j) => new InputTrack(drive.time, drive.inputs[j], inp.interpolate === 'hold', delays[j]));
-  const linearIdx = tracks.map((t, j) => (t.hold ? -1 : j)).filter((j) => j >= 0);
-  const holdIdx = tracks.map((t, j) => (t.hold ? j : -1)).filter((j) => j >= 0);
-
-  // For each sensitivity column, the hold inputs whose delay it is (their jumps move with it).
-  const delayedHoldOfColumn: number[][] = (slots ?? []).map((slot) =>
-    holdIdx.filter((j) => {
-      const d = model.inputs[j].delay;
-      return typeof d === 'string' && compiled.paramSlot.get(d) === slot;
-    }),
-  );
-  const anyJumpCondition = sens !== undefined && delayedHoldOfColumn.some((l) => l.length > 0);
-
-  // Results.
-  const states = Array.from({ length: n }, () => new Float64Array(M));
-  const outputs = Array.from({ length: nOut }, () => new Float64Array(M));
-  const sensOut = slots ? Array.from({ length: nOut }, () => new Float64Array(M * q)) : undefined;
-
-  // Work buffers, allocated once per simulation.
-  const u = new Float64Array(nIn);
-  const udot = new Float64Array(nIn);
-  const uS = new Float64Array(nIn);
-  const udotS = new Float64Array(nIn);
-  const zSample = new Float64Array(N);
-  const yBuf = new Float64Array(nOut);
-  const dyBuf = new Float64Array(nOut * q);
-
+/**
+ * Integrate the model along `drive`. A run that cannot finish (non-finite initial value or state,
+ * step limit) answers a failure value that says where and with which parameter values.
+ */
+export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationOutcome {
+  const run = prepareRun(compiled, drive, p, options);
+  const { n, N, sens } = run;
   // Initial state at the start.
-  let z = new Float64Array(N);
-  if (sens) sens.initial(drive.experimentIndex, p, z);
-  else compiled.initial(drive.experimentIndex, p, z);
-  for (let i = 0; i < N; i++) {
-    if (!Number.isFinite(z[i])) {
-      throw new RunFailure(
-        `cannot simulate experiment ${drive.name}: the initial value of ${i < n ? `state ${model.states[i].name}` : 'a sensitivity'} is not finite (parameters ${formatParameters(compiled, p)})`,
-        { experiment: drive.name, time: drive.start, parameters: parameterRecord(compiled, p) },
-      );
-    }
+  const z0 = new Float64Array(N);
+  if (sens) sens.initial(drive.experimentIndex, p, z0);
+  else compiled.initial(drive.experimentIndex, p, z0);
+  for (let i = 0; i < N; i++) if (!Number.isFinite(z0[i])) return nonFiniteInitial(compiled, drive.name, drive.start, p, i);
+  const tol = tolerances(options.rtol, options.atol, z0, n, p, sens ? run.slots! : []);
+  const cursor: Cursor = { m: 0, end: 0, lastX: drive.start, lastZ: new Float64Array(N), stepsInSegment: 0 };
+  const { aligned, breakpoints } = stepEnds(drive, run.tracks, run.linearIdx);
+  const solver = configuredSolver(run, tol, aligned, cursor, options);
+  let z: Float64Array;
+  try {
+    const done = integrateSegments(run, solver, z0, cursor, aligned, breakpoints, options);
+    if (!(done instanceof Float64Array)) return done;
+    z = done;
+  } catch (err) {
+    if (err instanceof NonFiniteState) return nonFiniteState(compiled, drive.name, p, err, cursor.lastX);
+    throw err;
   }
-  const tol = tolerances(options.rtol, options.atol, z, n, p, sens ? slots! : []);
-
-  /** Outputs (and their sensitivities) at sample m from zSample. */
-  const recordSample = (m: number): void => {
-    const t = drive.time[m];
-    for (let j = 0; j < nIn; j++) tracks[j].fill(t, uS, udotS, j);
-    for (let i = 0; i < n; i++) states[i][m] = zSample[i];
-    if (sens) {
-      sens.outputs(t, zSample, uS, udotS, p, yBuf, dyBuf);
-      const base = m * q;
-      for (let j = 0; j < nOut; j++) {
-        outputs[j][m] = yBuf[j];
-        const col = sensOut![j];
-        for (let k = 0; k < q; k++) col[base + k] = dyBuf[j * q + k];
-      }
-    } else {
-      compiled.outputs(t, zSample, uS, p, yBuf);
-      for (let j = 0; j < nOut; j++) outputs[j][m] = yBuf[j];
-    }
+  const warnings = stiffnessWarnings(run, z);
+  return {
+    ok: true,
+    result: {
+      experiment: drive.name,
+      time: drive.time,
+      warnings: warnings.length ? warnings : undefined,
+      states: run.states,
+      outputs: run.outputs,
+      sensitivities: run.slots ? { slots: [...run.slots], outputs: run.sensOut! } : undefined,
+      stats: run.stats,
+    },
   };
+}
 
-  // The integrator hands 0-based views of its own work arrays: read z and write dz in place.
-  const nLinear = linearIdx.length;
-  const linearTracks = linearIdx.map((j) => tracks[j]);
-  const rhs = (t: number, zIn: Float64Array, dz: Float64Array, side: number): void => {
-    stats.rhsEvaluations++;
-    for (let a = 0; a < nLinear; a++) linearTracks[a].fill(t, u, udot, linearIdx[a], side);
-    if (sens) sens.rhs(t, zIn, u, udot, p, dz);
-    else compiled.rhs(t, zIn, u, p, dz);
-    let s = 0;
-    for (let i = 0; i < N; i++) s += dz[i];
-    // s - s is NaN exactly when some entry is NaN or infinite (or the sum overflows).
-    if (s - s !== 0) throw new NonFiniteState(t, Float64Array.from(zIn), Float64Array.from(dz));
-  };
-
-  // Segment boundaries: start, every jump of a hold input, the last sample.
-  const tEnd = drive.time[M - 1];
-  const jumpSet = new Set<number>();
-  for (const j of holdIdx) for (const tau of tracks[j].jumpTimes(drive.start, tEnd)) jumpSet.add(tau);
-  const bounds = [drive.start, ...[...jumpSet].sort((a, b) => a - b), tEnd];
-
-  // Linear inputs that move have a kink at every sample (+ delay): steps end there (breakpoints),
-  // so that no step straddles a kink and no short feature of the input falls between steps.
-  // Built as sorted typed arrays merged without duplicates (a Set of boxed doubles and a sort per
-  // simulation were a visible share of a 10,000-sample simulation, and its garbage).
-  const kinkLists: Float64Array[] = [];
-  for (const j of linearIdx) {
-    const v = drive.inputs[j];
-    const d = tracks[j].delay;
-    const time = drive.time;
-    const list = new Float64Array(v.length);
-    let c = 0;
-    // The ends of the log: constant before the first sample and after the last.
-    if (v.length > 1 && v[1] !== v[0]) list[c++] = time[0] + d;
-    for (let i = 1; i + 1 < v.length; i++) {
-      // A sample where the slope does not change is no kink.
-      const before = (v[i] - v[i - 1]) / (time[i] - time[i - 1]);
-      const after = (v[i + 1] - v[i]) / (time[i + 1] - time[i]);
-      if (before !== after) list[c++] = time[i] + d;
-    }
-    if (v.length > 1 && v[v.length - 1] !== v[v.length - 2]) list[c++] = time[v.length - 1] + d;
-    kinkLists.push(list.subarray(0, c));
-  }
-  const kinks = mergeSorted(kinkLists);
-  // When kinks come at (nearly) every sample, steps end on the samples anyway: then every sample
-  // is made a breakpoint, the samples are step ends, and no dense output is needed (which also lets
-  // the integrator use its cheaper step-number sequence: measured ~2x faster on a 1 kHz log).
-  const aligned = M > 2 && kinks.length >= 0.5 * M;
-  const breakpoints = aligned ? mergeSorted([kinks, drive.time]) : kinks;
-
-  const solver = solverOfSize(N);
+function configuredSolver(run: IntegrationRun, tol: Tolerances, aligned: boolean, cursor: Cursor, options: SimulationOptions): Solver {
+  const solver = solverOfSize(run.N);
+  const time = run.drive.time;
   solver.denseOutput = !aligned;
   solver.relativeTolerance = tol.rtol;
   solver.absoluteTolerance = tol.atol;
-  // Partial error control (tolerances.ts): the step size follows the states; the sensitivities
-  // are integrated with the same steps.
-  solver.errorComponents = sensitivityErrorControl ? N : n;
+  // Partial error control (tolerances.ts), on request: the step size follows the states; the
+  // sensitivities are integrated with the same steps.
+  solver.errorComponents = (options.sensitivityErrorControl ?? true) ? run.N : run.n;
   // Build the interpolant only for steps that contain a sample (the observer samples exactly those).
-  solver.denseNeeded = aligned ? null : (_xOld: number, x: number) => m < end && drive.time[m] <= x;
+  solver.denseNeeded = aligned ? null : (_xOld: number, x: number) => cursor.m < cursor.end && time[cursor.m] <= x;
+  return solver;
+}
 
-  let m = 0; // next sample to record
-  const lastZ = new Float64Array(N);
-  let lastX = drive.start;
-  let stepsInSegment = 0;
-  let end = 0; // the current segment's samples end here (exclusive)
-  const time = drive.time;
-  const dense = !aligned;
-  // One observer for all segments (no closure per segment or step).
-  const observer = (nr: number, xOld: number, x: number, y: Float64Array): boolean | void => {
+/** One observer for all segments (no closure per segment or step): records the samples each step reaches. */
+function sampleObserver(run: IntegrationRun, solver: Solver, cursor: Cursor, dense: boolean): (nr: number, xOld: number, x: number, y: Float64Array) => boolean | void {
+  const time = run.drive.time;
+  const zSample = run.zSample;
+  const recordSample = sampleRecorder(run);
+  return (nr, xOld, x, y) => {
     if (nr > 1) {
-      stepsInSegment++;
-      lastX = x;
-      lastZ.set(y);
+      cursor.stepsInSegment++;
+      cursor.lastX = x;
+      cursor.lastZ.set(y);
     }
     if (dense && nr > 1) {
-      while (m < end && time[m] <= x) {
-        solver.denseInto(time[m], zSample);
-        recordSample(m++);
+      while (cursor.m < cursor.end && time[cursor.m] <= x) {
+        solver.denseInto(time[cursor.m], zSample);
+        recordSample(cursor.m++);
       }
       return;
     }
@@ -272,122 +149,85 @@ export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array
     // breakpoint by rounding, and the integrator treats breakpoints within 1e-8 of a step as
     // reached, so the same reach applies here.
     const reach = x + 1e-8 * (x - xOld) + 4 * Number.EPSILON * Math.abs(x);
-    while (m < end && time[m] <= reach) {
+    while (cursor.m < cursor.end && time[cursor.m] <= reach) {
       zSample.set(y);
-      recordSample(m++);
+      recordSample(cursor.m++);
     }
   };
+}
 
-  const holdValueIn = (j: number, a: number, b: number): number => tracks[j].value(0.5 * (a + b));
-
-  try {
-    for (let s = 0; s + 1 < bounds.length; s++) {
-      const a = bounds[s];
-      const b = bounds[s + 1];
-      const lastSegment = s + 2 === bounds.length;
-      for (const j of holdIdx) {
-        u[j] = holdValueIn(j, a, b);
-        udot[j] = 0;
-      }
-      if (b <= a) {
-        // Degenerate (single sample at the start): nothing to integrate.
-        zSample.set(z);
-        while (m < M && drive.time[m] <= b) recordSample(m++);
-        continue;
-      }
-      stats.segments++;
-      let first = m;
-      let count = 0;
-      while (first + count < M && (drive.time[first + count] < b || (lastSegment && drive.time[first + count] <= b))) count++;
-      solver.maxSteps = options.maxSteps ?? defaultMaxSteps(count);
-      solver.maxStepSize = b - a;
-      solver.breakpoints = breakpoints.length ? breakpoints : null;
-      solver.initialStepSize = Math.min(1e-4, (b - a) / 2);
-      end = first + count; // exclusive
-      lastX = a;
-      lastZ.set(z);
-      stepsInSegment = 0;
-      const res = solver.solve(rhs, a, z, b, observer);
-      stats.steps += res.nAccept;
-      stats.rejectedSteps += res.nReject;
-      if (res.outcome === Outcome.MaxStepsExceeded) {
-        const xs = lastZ.subarray(0, n);
-        for (const j of linearIdx) tracks[j].fill(lastX, u, udot, j);
-        const d = diagnoseStepLimit(compiled, lastX, Float64Array.from(xs), u, p, a, lastX, b - a, stepsInSegment);
-        throw new RunFailure(`cannot simulate experiment ${drive.name}: ${d.text} (parameters ${formatParameters(compiled, p)})`, {
-          experiment: drive.name,
-          time: lastX,
-          stiff: d.stiff,
-          fastestTimeConstant: d.fastest,
-          slowestTimeConstant: d.slowest,
-          parameters: parameterRecord(compiled, p),
-        });
-      }
-      z = Float64Array.from(res.y);
-      // Samples the last step did not reach by rounding (within a few ulps of b).
-      while (m < end) {
-        zSample.set(z);
-        recordSample(m++);
-      }
-      if (!lastSegment && anyJumpCondition) applyJumpCondition(b, bounds[s + 2] ?? b, a);
+/** Integrate segment by segment; the final z, or the failure at a step limit. Throws NonFiniteState (see integration-run.ts). */
+function integrateSegments(
+  run: IntegrationRun,
+  solver: Solver,
+  z0: Float64Array,
+  cursor: Cursor,
+  aligned: boolean,
+  breakpoints: Float64Array,
+  options: SimulationOptions,
+): Float64Array | SimulationOutcome {
+  const { drive, M, u, udot, zSample } = run;
+  const bounds = segmentBounds(drive, run.tracks, run.holdIdx);
+  const rhs = rightHandSide(run);
+  const observer = sampleObserver(run, solver, cursor, !aligned);
+  const recordSample = sampleRecorder(run);
+  let z = z0;
+  for (let s = 0; s + 1 < bounds.length; s++) {
+    const a = bounds[s];
+    const b = bounds[s + 1];
+    const lastSegment = s + 2 === bounds.length;
+    for (const j of run.holdIdx) {
+      u[j] = holdValueIn(run, j, a, b);
+      udot[j] = 0;
     }
-  } catch (err) {
-    if (err instanceof NonFiniteState) {
-      const bad = Array.from(err.z.subarray(0, n)).findIndex((v) => !Number.isFinite(v));
-      const badRate = Array.from(err.dz.subarray(0, n)).findIndex((v) => !Number.isFinite(v));
-      const what =
-        bad >= 0 ? `state ${model.states[bad].name} became ${err.z[bad]}`
-        : badRate >= 0 ? `the derivative of state ${model.states[badRate].name} became ${err.dz[badRate]}`
-        : 'a sensitivity became non-finite';
-      // The step size itself may have turned NaN first: then name the last time reached.
-      const known = Number.isFinite(err.t);
-      const time = known ? err.t : lastX;
-      throw new RunFailure(
-        `cannot simulate experiment ${drive.name}: ${what} ${known ? 'at' : 'after'} t=${Number(time.toPrecision(6))} ${model.timeUnit} (parameters ${formatParameters(compiled, p)}); check the equations for division by zero or overflow at these values`,
-        { experiment: drive.name, time, parameters: parameterRecord(compiled, p) },
-      );
+    if (b <= a) {
+      // Degenerate (single sample at the start): nothing to integrate.
+      zSample.set(z);
+      while (cursor.m < M && drive.time[cursor.m] <= b) recordSample(cursor.m++);
+      continue;
     }
-    throw err;
-  }
-
-  function applyJumpCondition(tau: number, nextEnd: number, prevStart: number): void {
-    // Input values just after tau (the next segment's), and the hold values just before.
-    for (const j of linearIdx) tracks[j].fill(tau, uS, udotS, j);
-    for (const j of holdIdx) uS[j] = holdValueIn(j, tau, nextEnd);
-    const x = z.subarray(0, n);
-    const fPlus = new Float64Array(n);
-    const fMinus = new Float64Array(n);
-    compiled.rhs(tau, x, uS, p, fPlus);
-    for (let k = 0; k < q; k++) {
-      for (const j of delayedHoldOfColumn[k]) {
-        const before = holdValueIn(j, prevStart, tau);
-        const after = uS[j];
-        if (before === after) continue;
-        uS[j] = before;
-        compiled.rhs(tau, x, uS, p, fMinus);
-        uS[j] = after;
-        for (let i = 0; i < n; i++) z[n + i * q + k] += fMinus[i] - fPlus[i];
-      }
+    run.stats.segments++;
+    const first = cursor.m;
+    let count = 0;
+    while (first + count < M && (drive.time[first + count] < b || (lastSegment && drive.time[first + count] <= b))) count++;
+    solver.maxSteps = options.maxSteps ?? defaultMaxSteps(count);
+    solver.maxStepSize = b - a;
+    solver.breakpoints = breakpoints.length ? breakpoints : null;
+    solver.initialStepSize = Math.min(1e-4, (b - a) / 2);
+    cursor.end = first + count; // exclusive
+    cursor.lastX = a;
+    cursor.lastZ.set(z);
+    cursor.stepsInSegment = 0;
+    const res = solver.solve(rhs, a, z, b, observer);
+    run.stats.steps += res.nAccept;
+    run.stats.rejectedSteps += res.nReject;
+    if (res.outcome === Outcome.MaxStepsExceeded) return stepLimitFailure(run, cursor, a, b);
+    z = Float64Array.from(res.y);
+    // Samples the last step did not reach by rounding (within a few ulps of b).
+    while (cursor.m < cursor.end) {
+      zSample.set(z);
+      recordSample(cursor.m++);
     }
+    if (!lastSegment && run.anyJumpCondition) applyJumpCondition(run, z, b, bounds[s + 2] ?? b, a);
   }
+  return z;
+}
 
-  // A run that succeeded but crawled: say so when the model looks stiff (slow, and a sign that the
-  // fast part might be better modelled as quasi-steady).
-  const warnings: string[] = [];
-  if (stats.steps > Math.max(20_000, 5 * M)) {
-    const xEnd = z.subarray(0, n);
-    for (const j of linearIdx) tracks[j].fill(tEnd, u, udot, j);
-    const w = stiffnessWarning(compiled, tEnd, Float64Array.from(xEnd), u, p, drive.start, tEnd, stats.steps);
-    if (w) warnings.push(`experiment ${drive.name}: ${w}`);
-  }
+function stepLimitFailure(run: IntegrationRun, cursor: Cursor, a: number, b: number): SimulationOutcome {
+  const { compiled, p, u, udot } = run;
+  const xs = cursor.lastZ.subarray(0, run.n);
+  for (const j of run.linearIdx) run.tracks[j].fill(cursor.lastX, u, udot, j);
+  const d = diagnoseStepLimit(compiled, cursor.lastX, Float64Array.from(xs), u, p, a, cursor.lastX, b - a, cursor.stepsInSegment);
+  return stepLimitReached(compiled, run.drive.name, cursor.lastX, p, d);
+}
 
-  return {
-    experiment: drive.name,
-    time: drive.time,
-    warnings: warnings.length ? warnings : undefined,
-    states,
-    outputs,
-    sensitivities: slots ? { slots: [...slots], outputs: sensOut! } : undefined,
-    stats,
-  };
+/** A run that succeeded but crawled: say so when the model looks stiff (slow, and a sign that the fast part might be better modelled as quasi-steady). */
+function stiffnessWarnings(run: IntegrationRun, z: Float64Array): string[] {
+  const { drive, stats, M, u, udot } = run;
+  if (!(stats.steps > Math.max(20_000, 5 * M))) return [];
+  const tEnd = drive.time[M - 1];
+  const xEnd = z.subarray(0, run.n);
+  for (const j of run.linearIdx) run.tracks[j].fill(tEnd, u, udot, j);
+  const w = stiffnessWarning(run.compiled, tEnd, Float64Array.from(xEnd), u, run.p, drive.start, tEnd, stats.steps);
+  return w ? [`experiment ${drive.name}: ${w}`] : [];
 }

@@ -7,10 +7,11 @@ import type { CompiledModel } from '../model/compiled-types.js';
 import type { ExperimentData } from '../data/types.js';
 import { nearestNames } from '../presentation/nearest-names.js';
 import { integrate, type Drive } from './integrate.js';
+import { resultOrThrow } from './outcome.js';
 import { evaluateStatic } from './static-model.js';
-import type { SimulationOptions, SimulationResult } from './types.js';
+import type { SimulationOptions, SimulationOutcome, SimulationResult } from './types.js';
 
-function run(compiled: CompiledModel, drive: Drive, p: Float64Array, options?: SimulationOptions): SimulationResult {
+function run(compiled: CompiledModel, drive: Drive, p: Float64Array, options?: SimulationOptions): SimulationOutcome {
   if (p.length !== compiled.nParams) throw new RangeError(`parameter vector has ${p.length} entries, the model ${compiled.nParams}`);
   return compiled.nStates === 0 ? evaluateStatic(compiled, drive, p, options) : integrate(compiled, drive, p, options);
 }
@@ -18,16 +19,23 @@ function run(compiled: CompiledModel, drive: Drive, p: Float64Array, options?: S
 /**
  * Simulate one experiment at its sample times, from `data.start` with the experiment's initial
  * states. With `options.sensitivitySlots`, also the output sensitivities.
- * Throws RunFailure (with time, experiment and parameter values) when the integration fails.
+ * A simulation that cannot finish answers `{ ok: false, failure }` (words with time, experiment and
+ * parameter values, and details); it throws only for a bug (e.g. a parameter vector of the wrong length).
  */
-export function simulateExperiment(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationResult {
+export function trySimulateExperiment(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationOutcome {
   return run(compiled, { name: data.experiment.name, experimentIndex: data.index, time: data.time, start: data.start, inputs: data.inputs }, p, options);
+}
+
+/** trySimulateExperiment for callers that want the result or a thrown RunFailure (the CLI's simulate). */
+export function simulateExperiment(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationResult {
+  return resultOrThrow(trySimulateExperiment(compiled, data, p, options));
 }
 
 /**
  * Simulate from t = 0 over `duration` (model time units) with constant inputs (by input name, or
  * in input order), sampled every `sampleInterval`; for `simulate --duration` without data.
  * Initial states are the declared ones (experiment index -1: no experiment's overrides).
+ * Throws UserError for a bad request and RunFailure when the simulation cannot finish.
  */
 export function simulateSpan(
   compiled: CompiledModel,
@@ -67,7 +75,7 @@ export function simulateSpan(
   const time = new Float64Array(count);
   for (let i = 0; i < count; i++) time[i] = i * sampleInterval;
   const inputs = values.map((v) => new Float64Array(count).fill(v));
-  return run(compiled, { name: 'span', experimentIndex: -1, time, start: 0, inputs }, p, options);
+  return resultOrThrow(run(compiled, { name: 'span', experimentIndex: -1, time, start: 0, inputs }, p, options));
 }
 
 function isArrayLike(v: unknown): v is ArrayLike<number> {

@@ -4,10 +4,11 @@
  */
 import type { CompiledModel } from '../model/compiled-types.js';
 import type { Drive } from './integrate.js';
-import type { SimulationOptions, SimulationResult } from './types.js';
-import { RunFailure } from '../errors.js';
+import { simulationFailed } from './outcome.js';
+import type { SimulationOptions, SimulationOutcome } from './types.js';
 
-export function evaluateStatic(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationResult {
+/** Evaluate the outputs row by row; a non-finite output answers a failure value naming the row. */
+export function evaluateStatic(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationOutcome {
   const M = drive.time.length;
   const nIn = compiled.nInputs;
   const nOut = compiled.nOutputs;
@@ -28,7 +29,7 @@ export function evaluateStatic(compiled: CompiledModel, drive: Drive, p: Float64
     else compiled.outputs(t, empty, u, p, y);
     for (let j = 0; j < nOut; j++) {
       if (!Number.isFinite(y[j])) {
-        throw new RunFailure(
+        return simulationFailed(
           `cannot evaluate experiment ${drive.name}: output ${compiled.model.outputs[j].name} is ${y[j]} at row ${m + 1} (inputs ${compiled.model.inputs.map((inp, i) => `${inp.name}=${u[i]}`).join(', ')})`,
           { experiment: drive.name, row: m, time: t },
         );
@@ -38,11 +39,14 @@ export function evaluateStatic(compiled: CompiledModel, drive: Drive, p: Float64
     }
   }
   return {
-    experiment: drive.name,
-    time: drive.time,
-    states: [],
-    outputs,
-    sensitivities: slots ? { slots: [...slots], outputs: sensOut! } : undefined,
-    stats: { rhsEvaluations: 0, steps: 0, rejectedSteps: 0, segments: 0 },
+    ok: true,
+    result: {
+      experiment: drive.name,
+      time: drive.time,
+      states: [],
+      outputs,
+      sensitivities: slots ? { slots: [...slots], outputs: sensOut! } : undefined,
+      stats: { rhsEvaluations: 0, steps: 0, rejectedSteps: 0, segments: 0 },
+    },
   };
 }

@@ -34,4 +34,22 @@ export interface SimulationOptions {
   sensitivitySlots?: readonly number[];
   /** Step limit per segment before the model is declared stiff / failing. */
   maxSteps?: number;
+  /**
+   * Whether the sensitivities take part in the step-size control (default true). False: partial
+   * error control, the steps follow the states only (see tolerances.ts for the measurement behind
+   * the default). For measurements and tests.
+   */
+  sensitivityErrorControl?: boolean;
 }
+
+/**
+ * Why a simulation that ran could not finish (non-finite state, step limit, stiffness...): the
+ * words users see (with experiment, time and parameter values) and machine-readable details.
+ */
+export interface SimulationFailure {
+  message: string;
+  details: Record<string, unknown>;
+}
+
+/** A simulation's answer: its result, or why it failed. An expected failure is a value, not an exception. */
+export type SimulationOutcome = { ok: true; result: SimulationResult } | { ok: false; failure: SimulationFailure };

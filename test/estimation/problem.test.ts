@@ -76,6 +76,16 @@ describe('estimation problem assembly', () => {
     expect(problem.residualsAndJacobian([-0.5, 1, 0])).toBeNull();
     expect(problem.lastFailure?.message).toMatch(/grows/);
   });
+
+  it('takes a simulator that only throws (RunFailure) the same way as one that answers values', () => {
+    const model = decayModel([{ ...params[0], kind: 'free', scale: 'linear', min: -1, max: 1 } as ParameterSpec, params[1], params[2]], ['e1']);
+    const throwingOnly = { simulateExperiment: decaySimulator.simulateExperiment, parameterVector: decaySimulator.parameterVector };
+    const problem = buildProblem(decayCompiled(model), [decayData(model, 0, [0, 1], [1, 0.5])], [1], throwingOnly);
+    expect(problem.residuals([-0.5, 1, 0])).toBeNull();
+    expect(problem.lastFailure).toEqual({ message: 'state grows without bound', details: { k: -0.5 } });
+    // Closed form x = A exp(-k t) + c at k = 0.5, A = 1, c = 0: residual 1 - 1 at t = 0.
+    expect(problem.residuals([0.5, 1, 0])![0]).toBe(0);
+  });
 });
 
 describe('estimation problem on a compiled ODE model with the real simulator', () => {

@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { RunFailure } from '../../src/errors.js';
 import { stiffnessWarning } from '../../src/simulation/stiffness.js';
-import { simulateExperiment, simulateSpan } from '../../src/simulation/simulate.js';
+import { simulateExperiment, simulateSpan, trySimulateExperiment } from '../../src/simulation/simulate.js';
 import { handData, handModel, linspace } from './hand-models.js';
 import { firstOrder, rlInertia, secondOrder } from './models.js';
 
@@ -207,6 +207,29 @@ describe('closed-form responses', () => {
     expect(e.message).toContain('a=1');
     expect(e.details.time as number).toBeGreaterThan(0.99);
     expect(e.details.time as number).toBeLessThan(1.01);
+  });
+
+  it('trySimulateExperiment answers the same failure as a value, without throwing', () => {
+    // x' = a x^2, x(0) = 1: x = 1/(1 - a t), infinite at t = 1/a = 0.5 for a = 2
+    const c = handModel({
+      states: ['x'],
+      params: [{ name: 'a', value: 2 }],
+      outputs: ['x'],
+      rhs: (_t, x, _u, p, dx) => { dx[0] = p[0] * x[0] * x[0]; },
+      outputsFn: (_t, x, _u, _p, y) => { y[0] = x[0]; },
+      initial: (_e, _p, x0) => { x0[0] = 1; },
+    });
+    const data = handData(c, linspace(0, 2, 21), []);
+    const outcome = trySimulateExperiment(c, data, c.defaultParams(), { maxSteps: 20000 });
+    expect(outcome.ok).toBe(false);
+    if (outcome.ok) return;
+    expect(outcome.failure.details.time as number).toBeGreaterThan(0.495);
+    expect(outcome.failure.details.time as number).toBeLessThan(0.505);
+    expect(() => simulateExperiment(c, data, c.defaultParams(), { maxSteps: 20000 })).toThrow(new RunFailure(outcome.failure.message, outcome.failure.details));
+    // Before the blow-up the same run succeeds and follows the closed form.
+    const early = trySimulateExperiment(c, handData(c, linspace(0, 0.25, 6), []), c.defaultParams());
+    expect(early.ok).toBe(true);
+    if (early.ok) expectNear(early.result.states[0][5], 1 / (1 - 2 * 0.25), 1e-6);
   });
 
   it('simulateSpan: constant inputs over a duration without data', () => {

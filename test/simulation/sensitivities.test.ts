@@ -29,6 +29,23 @@ describe('sensitivities', () => {
     }
   });
 
+  it('sensitivityErrorControl: off, the steps follow the states alone; on (the default), the sensitivities too', () => {
+    // closed form as above: x = K + (x0 - K) e^{-t/tau}, dx/dtau = (x0 - K) e^{-t/tau} t / tau^2
+    const c = firstOrder({ K: 2, tau: 0.5, x0: 0.4 });
+    const t = linspace(0, 4, 81);
+    const data = handData(c, t, [new Float64Array(81).fill(1)]);
+    const plain = simulateExperiment(c, data, c.defaultParams());
+    const partial = simulateExperiment(c, data, c.defaultParams(), { sensitivitySlots: [0, 1, 2], sensitivityErrorControl: false });
+    const byDefault = simulateExperiment(c, data, c.defaultParams(), { sensitivitySlots: [0, 1, 2] });
+    const full = simulateExperiment(c, data, c.defaultParams(), { sensitivitySlots: [0, 1, 2], sensitivityErrorControl: true });
+    expect(partial.stats.steps).toBe(plain.stats.steps);
+    expect(byDefault.stats).toEqual(full.stats);
+    for (let i = 0; i < t.length; i++) {
+      const e = Math.exp(-t[i] / 0.5);
+      near(partial.sensitivities!.outputs[0][i * 3 + 1], ((0.4 - 2) * e * t[i]) / 0.25, 1e-6);
+    }
+  });
+
   it('delay of a hold step: the jump condition gives dx/dd = -K/tau e^{-(t - ts - d)/tau}', () => {
     // closed form of a delayed step into a first-order lag: x = K (1 - e^{-(t - ts - d)/tau}) for t > ts + d
     const c = firstOrder({ interpolate: 'hold', delay: 'd', K: 2, tau: 0.5 });

@@ -2,7 +2,10 @@
 export { solveLeastSquares } from './levenberg-marquardt.js';
 export { SOLVER_DEFAULTS } from './defaults.js';
 export { RowMajorMatrix } from './row-major.js';
+export { STOP_REASONS, stopMessage, type StopDetails, type StopReasonEntry } from './stop-reasons.js';
 export type {
+  EvaluationAnswer,
+  EvaluationFailed,
   JacobianInput,
   LeastSquaresProblem,
   ResidualsWithJacobian,
@@ -10,4 +13,5 @@ export type {
   SolverProgress,
   SolverResult,
   StopReason,
+  StopStatus,
 } from './types.js';

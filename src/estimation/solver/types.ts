@@ -9,6 +9,7 @@
  * where a Jacobian is needed (at the start and after each accepted step).
  */
 import type { JacobianInput, RowMajorMatrix } from './row-major.js';
+import type { StopReason, StopStatus } from './stop-reasons.js';
 
 /**
  * A Jacobian (rows = residuals, columns = theta entries) as a RowMajorMatrix, an ml-matrix Matrix,
@@ -21,14 +22,26 @@ export interface ResidualsWithJacobian {
   jacobian: JacobianInput;
 }
 
+/**
+ * A callback's answer for a point that cannot be evaluated, with the reason in words (an expected
+ * failure, e.g. a diverging trial simulation). Returned, never thrown: the solver treats anything
+ * a callback throws as a bug and lets it propagate.
+ */
+export interface EvaluationFailed {
+  failed: string;
+}
+
+/** What a callback answers: the value, a failure with its words, or null (a failure without words). */
+export type EvaluationAnswer<T> = T | EvaluationFailed | null;
+
 export interface LeastSquaresProblem {
   /**
-   * Residuals at theta. Return null (or throw a RunFailure) when they cannot be computed, e.g. a
-   * trial simulation diverged: the solver rejects that trial and shrinks its trust region.
+   * Residuals at theta, or a failure (`{ failed: why }`, or null) when they cannot be computed, e.g.
+   * a trial simulation diverged: the solver rejects that trial and shrinks its trust region.
    */
-  residuals(theta: readonly number[]): ArrayLike<number> | null;
-  /** Residuals and their Jacobian d r / d theta at theta; null or RunFailure as above. */
-  residualsAndJacobian(theta: readonly number[]): ResidualsWithJacobian | null;
+  residuals(theta: readonly number[]): EvaluationAnswer<ArrayLike<number>>;
+  /** Residuals and their Jacobian d r / d theta at theta; a failure as above. */
+  residualsAndJacobian(theta: readonly number[]): EvaluationAnswer<ResidualsWithJacobian>;
   /** Bounds on theta (same length as the start; -Infinity / Infinity allowed). Default: none. */
   lower?: ArrayLike<number>;
   upper?: ArrayLike<number>;
@@ -109,19 +122,11 @@ export interface SolverOptions {
   onIteration?: (p: SolverProgress) => void;
 }
 
-/** Why the solver stopped, for programs; `message` says the same in words. */
-export type StopReason =
-  | 'cost'
-  | 'step'
-  | 'cost-and-step'
-  | 'gradient'
-  | 'zero-residual'
-  | 'machine-precision'
-  | 'iterations'
-  | 'start-failed';
+export type { StopReason, StopStatus };
 
 export interface SolverResult {
-  status: 'converged' | 'stopped' | 'failed';
+  status: StopStatus;
+  /** The test that ended the run: a key of STOP_REASONS (stop-reasons.ts), which documents each. */
   reason: StopReason;
   /** In words, e.g. "relative cost change below 1e-10". */
   message: string;

@@ -3,11 +3,11 @@
  * output y = x + c, solved in closed form (x = A exp(-k t)) with exact output sensitivities.
  * Invented for tests; nothing here is measured.
  */
-import { RunFailure } from '../../../src/errors.js';
 import type { CompiledModel } from '../../../src/model/compiled-types.js';
 import type { ExperimentData } from '../../../src/data/types.js';
 import type { Model, ParameterSpec } from '../../../src/model/types.js';
-import type { SimulationOptions, SimulationResult } from '../../../src/simulation/types.js';
+import { resultOrThrow, simulationFailed } from '../../../src/simulation/outcome.js';
+import type { SimulationOptions, SimulationOutcome, SimulationResult } from '../../../src/simulation/types.js';
 import type { SimulatorFns } from '../../../src/estimation/problem.js';
 
 export const SLOTS = { k: 0, A: 1, c: 2 } as const;
@@ -84,9 +84,12 @@ export const decaySimulator: SimulatorFns = {
     }
     return p;
   },
-  simulateExperiment(_compiled, data, p, options?: SimulationOptions): SimulationResult {
+  simulateExperiment(compiled, data, p, options?: SimulationOptions): SimulationResult {
+    return resultOrThrow(decaySimulator.trySimulateExperiment!(compiled, data, p, options));
+  },
+  trySimulateExperiment(_compiled, data, p, options?: SimulationOptions): SimulationOutcome {
     const [k, A, c] = [p[0], p[1], p[2]];
-    if (k < 0) throw new RunFailure('state grows without bound');
+    if (k < 0) return simulationFailed('state grows without bound', { k });
     const n = data.time.length;
     const x = new Float64Array(n);
     const y = new Float64Array(n);
@@ -103,12 +106,15 @@ export const decaySimulator: SimulatorFns = {
       });
     }
     return {
-      experiment: data.experiment.name,
-      time: data.time,
-      states: [x],
-      outputs: [y],
-      sensitivities: slots ? { slots, outputs: [dy] } : undefined,
-      stats: { rhsEvaluations: 0, steps: 0, rejectedSteps: 0, segments: 1 },
+      ok: true,
+      result: {
+        experiment: data.experiment.name,
+        time: data.time,
+        states: [x],
+        outputs: [y],
+        sensitivities: slots ? { slots, outputs: [dy] } : undefined,
+        stats: { rhsEvaluations: 0, steps: 0, rejectedSteps: 0, segments: 1 },
+      },
     };
   },
 };

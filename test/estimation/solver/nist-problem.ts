@@ -10,7 +10,14 @@ import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { compile, derivative, parse } from 'mathjs';
-import type { LeastSquaresProblem } from '../../../src/estimation/solver/index.js';
+import type { LeastSquaresProblem, ResidualsWithJacobian } from '../../../src/estimation/solver/index.js';
+
+/** A NIST problem never fails to evaluate: its callbacks answer plain values. */
+export interface NistLeastSquares extends LeastSquaresProblem {
+  residuals(theta: readonly number[]): Float64Array;
+  residualsAndJacobian(theta: readonly number[]): ResidualsWithJacobian & { residuals: Float64Array; jacobian: Float64Array };
+  evaluations(): number;
+}
 
 export interface NistFixture {
   source: string;
@@ -52,7 +59,7 @@ export function responseValues(f: NistFixture): number[] {
   throw new Error(`unknown response ${f.response}`);
 }
 
-export function nistProblem(f: NistFixture): LeastSquaresProblem & { evaluations: () => number } {
+export function nistProblem(f: NistFixture): NistLeastSquares {
   const tree = parse(f.model);
   const model = tree.compile();
   const partials = f.parameters.map((b) => compile(derivative(tree, b).toString()));

@@ -36,7 +36,7 @@ function counted(): { problem: LeastSquaresProblem; plain: () => number; withJac
   };
 }
 
-const plainCost = (p: LeastSquaresProblem, theta: readonly number[]) => Array.from(p.residuals(theta)!).reduce((s, r) => s + r * r, 0);
+const plainCost = (p: LeastSquaresProblem, theta: readonly number[]) => Array.from(p.residuals(theta) as ArrayLike<number>).reduce((s, r) => s + r * r, 0);
 
 describe('speculative Jacobian trials', () => {
   const start = [2, 0.2, 0.1];
