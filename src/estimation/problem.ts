@@ -17,19 +17,16 @@ import { type JacobianInput, type RowMajorMatrix, toRowMajor } from './solver/ro
 import type { CompiledModel } from '../model/compiled-types.js';
 import type { ExperimentData } from '../data/types.js';
 import type { FreeParameterSpec } from '../model/types.js';
-import { outcomeOfThrowing } from '../simulation/outcome.js';
+import { resultOrThrow } from '../simulation/outcome.js';
 import type { SimulationFailure, SimulationOptions, SimulationOutcome, SimulationResult } from '../simulation/types.js';
 
 /** The simulator's entry points, passed in so that the problem is a pure function of its parts. */
 export interface SimulatorFns {
-  /** Throws RunFailure when the simulation cannot finish (simulateAll, and the fit's own uses). */
-  simulateExperiment(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationResult;
   /**
-   * The same answering a failure as a value (simulation/simulate.ts trySimulateExperiment): the
-   * trial simulations use it. When absent, it is derived from `simulateExperiment` by
-   * `outcomeOfThrowing` (simulation/outcome.ts), the one place a RunFailure becomes a value.
+   * One experiment simulated, a failure (diverged, stiff...) answered as a value
+   * (simulation/simulate.ts trySimulateExperiment).
    */
-  trySimulateExperiment?(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationOutcome;
+  trySimulateExperiment(compiled: CompiledModel, data: ExperimentData, p: Float64Array, options?: SimulationOptions): SimulationOutcome;
   /** Declared values, then the experiment's `set`, then `values` and `model.overrides`. */
   parameterVector(compiled: CompiledModel, experimentIndex: number, values?: Record<string, number>): Float64Array;
 }
@@ -145,10 +142,9 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
   let lastJacobianTheta: number[] | undefined;
   let kept: { theta: number[]; results: SimulationResult[] } | undefined;
 
-  const trySimulate = sim.trySimulateExperiment ? sim.trySimulateExperiment.bind(sim) : outcomeOfThrowing(sim.simulateExperiment.bind(sim));
   /** A simulation at a trial point: a failure (diverged, stiff...) is a failed trial, kept for its words. */
   const trialSimulation = (fitIndex: number, p: Float64Array, options?: { sensitivitySlots: readonly number[] }): SimulationResult | null => {
-    const outcome = trySimulate(compiled, fitData[fitIndex], p, options);
+    const outcome = sim.trySimulateExperiment(compiled, fitData[fitIndex], p, options);
     if (outcome.ok) return outcome.result;
     problem.lastFailure = outcome.failure;
     return null;
@@ -181,7 +177,7 @@ export function buildProblem(compiled: CompiledModel, fitData: readonly Experime
       if (kept && sameTheta(kept.theta, theta)) return kept.results.slice();
       return fitData.map((d, fitIndex) => {
         counters.simulations++;
-        return sim.simulateExperiment(compiled, d, problem.paramsFor(theta, fitIndex));
+        return resultOrThrow(sim.trySimulateExperiment(compiled, d, problem.paramsFor(theta, fitIndex)));
       });
     },
     residuals(theta) {

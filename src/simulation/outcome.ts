@@ -14,24 +14,3 @@ export function resultOrThrow(outcome: SimulationOutcome): SimulationResult {
   if (outcome.ok) return outcome.result;
   throw new RunFailure(outcome.failure.message, outcome.failure.details);
 }
-
-/**
- * The value form of a simulator that offers only the throwing form (a RunFailure becomes a
- * failure; anything else thrown is a bug and propagates). For simulators passed in from outside
- * (estimation/problem.ts SimulatorFns without `trySimulateExperiment`); the library's own
- * simulation answers values and never needs it.
- */
-export function outcomeOfThrowing<A extends unknown[]>(simulate: (...args: A) => SimulationResult): (...args: A) => SimulationOutcome {
-  return (...args) => {
-    try {
-      return { ok: true, result: simulate(...args) };
-    } catch (err) {
-      if (!(err instanceof RunFailure)) throw err;
-      return { ok: false, failure: failureOf(err) };
-    }
-  };
-}
-
-function failureOf(err: RunFailure): SimulationFailure {
-  return { message: err.message, details: err.details };
-}

@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/run.js';
 import type { CliIO } from '../../src/cli/io.js';
 import { tempDir, writeThermalRig } from './helpers/rigs.js';
+import { STOP_REASONS, type StopReason } from '../../src/estimation/solver/index.js';
 
 function io(cwd: string, tty = false) {
   const out: string[] = [];
@@ -54,6 +55,15 @@ describe('rigcal fit', () => {
     expect(fit.format).toBe(1);
     expect(fit.parameters.map((p: { name: string }) => p.name)).toEqual(['C', 'R', 'Ta', 'T0@warm', 'T0@cold']);
     expect(readFileSync(join(dir, 'j', 'fit.json'), 'utf8')).toBe(c.out());
+    // Why it stopped, as a documented code that agrees with the status and the words.
+    const entry = STOP_REASONS[fit.stopReason as StopReason];
+    expect(entry).toBeDefined();
+    expect(entry.status).toBe(fit.status);
+    expect(fit.message.startsWith(entry.message.split('{')[0])).toBe(true);
+    // The solver's set-up for this ODE fit of two short logs (no relaxed stops: too few degrees of freedom).
+    expect(fit.solver.model).toBe('ode');
+    expect(fit.solver.degreesOfFreedom).toBe(fit.statistics.dof);
+    expect(fit.solver.stepCaps).toBe(fit.parameters.filter((p: { status: string; scale?: string }) => p.status === 'free' && p.scale === 'log').length);
   });
 
   it('--starts and --seed run a reproducible multistart', async () => {

@@ -1,4 +1,5 @@
 /** The estimation problem keeps the solver's current point's simulations and rescales for new weights. */
+import { resultOrThrow } from '../../src/simulation/outcome.js';
 import { Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { buildProblem } from '../../src/estimation/problem.js';
@@ -27,7 +28,7 @@ describe('estimation problem: reuse of work', () => {
     const kept = problem.simulateAll(th);
     expect(problem.counters.simulations).toBe(n);
     // Same outputs as a fresh simulation there (closed form: x = A exp(-k t) + c).
-    const fresh = decaySimulator.simulateExperiment(problem.compiled, problem.fitData[0], problem.paramsFor(th, 0));
+    const fresh = resultOrThrow(decaySimulator.trySimulateExperiment(problem.compiled, problem.fitData[0], problem.paramsFor(th, 0)));
     expect(Array.from(kept[0].outputs[0])).toEqual(Array.from(fresh.outputs[0]));
     // A trial point evaluated plainly but never taken is not kept.
     const other = [th[0] + 0.1, th[1]];

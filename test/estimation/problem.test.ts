@@ -77,14 +77,15 @@ describe('estimation problem assembly', () => {
     expect(problem.lastFailure?.message).toMatch(/grows/);
   });
 
-  it('takes a simulator that only throws (RunFailure) the same way as one that answers values', () => {
+  it('keeps the words and details of the last failed simulation, and evaluates again after it', () => {
     const model = decayModel([{ ...params[0], kind: 'free', scale: 'linear', min: -1, max: 1 } as ParameterSpec, params[1], params[2]], ['e1']);
-    const throwingOnly = { simulateExperiment: decaySimulator.simulateExperiment, parameterVector: decaySimulator.parameterVector };
-    const problem = buildProblem(decayCompiled(model), [decayData(model, 0, [0, 1], [1, 0.5])], [1], throwingOnly);
+    const problem = buildProblem(decayCompiled(model), [decayData(model, 0, [0, 1], [1, 0.5])], [1], decaySimulator);
     expect(problem.residuals([-0.5, 1, 0])).toBeNull();
     expect(problem.lastFailure).toEqual({ message: 'state grows without bound', details: { k: -0.5 } });
     // Closed form x = A exp(-k t) + c at k = 0.5, A = 1, c = 0: residual 1 - 1 at t = 0.
     expect(problem.residuals([0.5, 1, 0])![0]).toBe(0);
+    // Where every simulation must succeed (the optimum's series), a failure is a RunFailure.
+    expect(() => problem.simulateAll([-0.5, 1, 0])).toThrow(/grows without bound/);
   });
 });
 
@@ -93,10 +94,10 @@ describe('estimation problem on a compiled ODE model with the real simulator', (
     const { loadModel } = await import('../../src/model/load/index.js');
     const { compileModel } = await import('../../src/model/compile/index.js');
     const { loadAllData } = await import('../../src/estimation/fit/fit-model.js');
-    const { parameterVector, simulateExperiment } = await import('../../src/simulation/index.js');
+    const { parameterVector, trySimulateExperiment } = await import('../../src/simulation/index.js');
     const { tempDir, writeThermalRig } = await import('./helpers/rigs.js');
     const model = loadModel(writeThermalRig(tempDir()));
-    const problem = buildProblem(compileModel(model), loadAllData(model), [0.05], { simulateExperiment, parameterVector });
+    const problem = buildProblem(compileModel(model), loadAllData(model), [0.05], { trySimulateExperiment, parameterVector });
     expect(problem.entries.map((e) => `${e.name}:${e.scale}`)).toEqual(['C:log', 'R:log', 'T0@warm:linear', 'T0@cold:linear']);
     const theta = [Math.log(1500), Math.log(0.3), 305, 300];
     const rj = problem.residualsAndJacobian(theta)!;

@@ -7,7 +7,8 @@
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { defaultFitDeps, loadAllData } from '../../src/estimation/fit.js';
+import { realCollaborators } from '../../src/estimation/fit/collaborators.js';
+import { loadAllData } from '../../src/estimation/fit/fit-model.js';
 import { initialNoise } from '../../src/estimation/noise.js';
 import { buildProblem } from '../../src/estimation/problem.js';
 import { solverSetup } from '../../src/estimation/solver-setup.js';
@@ -20,7 +21,7 @@ const here = dirname(fileURLToPath(import.meta.url));
 function setupOf(file: string) {
   const model = loadModel(file);
   const fitData = loadAllData(model).filter((d) => d.experiment.role === 'fit');
-  const problem = buildProblem(compileModel(model), fitData, initialNoise(model, fitData).sigmas, defaultFitDeps().sim);
+  const problem = buildProblem(compileModel(model), fitData, initialNoise(model, fitData).sigmas, realCollaborators().sim);
   return { problem, ...solverSetup(problem) };
 }
 

@@ -91,7 +91,9 @@ export function demoResults(options: DemoOptions = {}): { fit: FitResult; series
     model: { name: options.modelName ?? 'demo-motor-rig', file: 'demo-motor.yaml', sha256: hash, description: 'Demo scenario of our own: a DC motor speed rig (invented data).' },
     timeUnit: 's',
     experiments: runs.map((r) => ({ name: r.series[0].experiment, role: r.series[0].role, file: `${r.series[0].experiment}.csv`, sha256: hash, rows: n })),
-    status: 'converged', message: 'relative cost change below 1e-10', iterations: 9, simulations: 11, wallSeconds: 0.21,
+    status: 'converged', message: 'relative cost change below 1e-10', stopReason: 'cost-change',
+    solver: { model: 'ode', degreesOfFreedom: 11995, relaxedStops: true, noisyCost: true, speculativeJacobian: true, stepCaps: 3, stepCapFactor: 2, costTolerance: 1e-10, costNoiseLimit: 1e-6, stepTolerance: 1e-10, gradientTolerance: 1e-10 },
+    iterations: 9, simulations: 11, wallSeconds: 0.21,
     parameters: [
       { name: 'K', parameter: 'K', unit: 'rad/(s*V)', status: 'free', estimate: 8.2, stdError: 0.004, ci95: [8.192, 8.208], min: 1, max: 20, start: 5, atBound: false },
       { name: 'tau', parameter: 'tau', unit: 's', status: 'free', estimate: 0.12, stdError: 0.0002, ci95: [0.1196, 0.1204], min: 0.001, max: 2, start: 0.5, scale: 'log', atBound: false },

@@ -19,6 +19,8 @@ export function assembleResult(setup: FitSetup, solved: SolvedFit, estimates: Es
     experiments: data.map((d) => ({ name: d.experiment.name, role: d.experiment.role, file: d.experiment.fileAsWritten, sha256: d.sha256, rows: d.time.length })),
     status: run.status,
     message: run.message + noiseRounds,
+    stopReason: run.reason,
+    solver: setup.solver.regime,
     iterations: solved.iterations,
     simulations: problem.counters.simulations,
     sensitivitySimulations: problem.counters.sensitivitySimulations,

@@ -6,7 +6,7 @@
  */
 import { residualDiagnostics, type InputSignal, type ResidualDiagnostics } from '../../diagnostics/residual-diagnostics.js';
 import type { ResidualSeries } from '../../diagnostics/types.js';
-import { parameterVector, simulateExperiment } from '../../simulation/index.js';
+import { parameterVector, trySimulateExperiment } from '../../simulation/index.js';
 import { analyseIdentifiability, type IdentifiabilityInput, type IdentifiabilityResult } from '../identifiability.js';
 import { runMultistart, type MultistartEntry, type MultistartOptions, type MultistartOutcome } from '../multistart.js';
 import type { SimulatorFns } from '../problem.js';
@@ -32,7 +32,7 @@ export interface FitCollaborators {
 
 export function realCollaborators(): FitCollaborators {
   return {
-    sim: { simulateExperiment, parameterVector },
+    sim: { trySimulateExperiment, parameterVector },
     solve: solveLeastSquares,
     uncertainty: computeUncertainty,
     identifiability: analyseIdentifiability,

@@ -4,6 +4,8 @@
  * rendered by reports. `CompletedFit` is what `fitModel` returns: that record, plus the residual
  * series at the estimates and the values by name, which the results folder and reports need.
  */
+import type { SolverRegime } from '../solver-setup.js';
+import type { StopReason } from '../solver/stop-reasons.js';
 import type { InputCorrelation, ResidualAutocorrelation, ResidualSeries, WhitenessResult } from '../../diagnostics/types.js';
 
 export interface ParameterResult {
@@ -90,6 +92,10 @@ export interface FitResult {
   experiments?: { name: string; role: 'fit' | 'validation'; file: string; sha256: string; rows: number }[];
   status: 'converged' | 'stopped' | 'failed';
   message: string;
+  /** Which test ended the solver's last run: a code of STOP_REASONS (solver/stop-reasons.ts, README "Why a fit stopped"). */
+  stopReason: StopReason;
+  /** How the solver was set up for this problem (solver-setup.ts SolverRegime). */
+  solver: SolverRegime;
   iterations: number;
   simulations: number;
   /** Simulations that also integrated sensitivities. */

@@ -6,7 +6,6 @@
 import type { ExperimentData } from '../../data/types.js';
 import type { ResidualSeries } from '../../diagnostics/types.js';
 import { scoreSeries } from '../../diagnostics/scores.js';
-import { RunFailure } from '../../errors.js';
 import type { SimulationResult } from '../../simulation/types.js';
 import type { OutputResult } from './fit-result.js';
 import type { FitSetup } from './fit-setup.js';
@@ -42,20 +41,11 @@ export function scoreValidationExperiments(setup: FitSetup, values: readonly num
       warnings.push(`validation experiment ${d.experiment.name} has no estimate of the per-experiment parameter${plural ? 's' : ''} ${perExperiment.join(', ')}; the start value${plural ? 's were' : ' was'} used`);
     }
     problem.counters.simulations++;
-    const simulated = simulateValue(setup, d, pv);
-    if (simulated instanceof RunFailure) warnings.push(`validation experiment ${d.experiment.name} could not be simulated at the estimates: ${simulated.message}`);
-    else scoreExperiment(setup, d, simulated, scored);
+    const simulated = collaborators.sim.trySimulateExperiment(compiled, d, pv);
+    if (simulated.ok) scoreExperiment(setup, d, simulated.result, scored);
+    else warnings.push(`validation experiment ${d.experiment.name} could not be simulated at the estimates: ${simulated.failure.message}`);
   }
   return warnings;
-}
-
-function simulateValue(setup: FitSetup, d: ExperimentData, p: Float64Array): SimulationResult | RunFailure {
-  try {
-    return setup.collaborators.sim.simulateExperiment(setup.compiled, d, p);
-  } catch (err) {
-    if (err instanceof RunFailure) return err;
-    throw err;
-  }
 }
 
 function scoreExperiment(setup: FitSetup, d: ExperimentData, res: SimulationResult, scored: ScoredExperiments): void {

@@ -45,7 +45,7 @@ export const STOP_REASONS = {
   },
   'model-gain-below-tolerance': {
     status: 'converged',
-    meaning: 'noisy cost, before a trial: no step of the free entries can reduce the linear model by the cost tolerance (||Q^T r||^2 / ||r||^2)',
+    meaning: 'noisy cost, before a trial: no step of the free entries can reduce the linear model by the cost tolerance (squared norm of Q^T r over that of r)',
     message: 'relative cost change predicted by a full Gauss-Newton step below {costTolerance}',
   },
   'model-gain-below-noise': {

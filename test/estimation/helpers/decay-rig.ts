@@ -6,7 +6,7 @@
 import type { CompiledModel } from '../../../src/model/compiled-types.js';
 import type { ExperimentData } from '../../../src/data/types.js';
 import type { Model, ParameterSpec } from '../../../src/model/types.js';
-import { resultOrThrow, simulationFailed } from '../../../src/simulation/outcome.js';
+import { simulationFailed } from '../../../src/simulation/outcome.js';
 import type { SimulationOptions, SimulationOutcome, SimulationResult } from '../../../src/simulation/types.js';
 import type { SimulatorFns } from '../../../src/estimation/problem.js';
 
@@ -83,9 +83,6 @@ export const decaySimulator: SimulatorFns = {
       if (e === undefined || e === exp.name) p[compiled.paramSlot.get(name)!] = v;
     }
     return p;
-  },
-  simulateExperiment(compiled, data, p, options?: SimulationOptions): SimulationResult {
-    return resultOrThrow(decaySimulator.trySimulateExperiment!(compiled, data, p, options));
   },
   trySimulateExperiment(_compiled, data, p, options?: SimulationOptions): SimulationOutcome {
     const [k, A, c] = [p[0], p[1], p[2]];

@@ -102,3 +102,13 @@ describe('table of stopping reasons', () => {
     expectDocumented(res, defaults);
   });
 });
+
+describe('the README documents every stopping reason', () => {
+  it('its table lists exactly the codes of STOP_REASONS, in order, with their status and meaning', () => {
+    const readme = readFileSync(join(dirname(fileURLToPath(import.meta.url)), '../../../README.md'), 'utf8');
+    const section = readme.slice(readme.indexOf('## Why a fit stopped'));
+    const rows = [...section.matchAll(/^\| `([a-z-]+)` \| (\w+) \| (.+) \|$/gm)].map((m) => [m[1], m[2], m[3]]);
+    const expected = Object.entries(STOP_REASONS).map(([code, e]) => [code, e.status, e.meaning]);
+    expect(rows).toEqual(expected);
+  });
+});

@@ -15,6 +15,8 @@ export function sampleOutcome(): CompletedFit {
     ],
     status: 'converged',
     message: 'relative cost change below 1e-10',
+    stopReason: 'cost-change',
+    solver: { model: 'ode', degreesOfFreedom: 11995, relaxedStops: true, noisyCost: true, speculativeJacobian: true, stepCaps: 3, stepCapFactor: 2, costTolerance: 1e-10, costNoiseLimit: 1e-6, stepTolerance: 1e-10, gradientTolerance: 1e-10 },
     iterations: 7,
     simulations: 9,
     sensitivitySimulations: 8,
