@@ -19,16 +19,12 @@
 import type { MathNode } from 'mathjs';
 import { parse } from '../util/mathjs.js';
 import type { ProblemList, SourceLocation } from '../errors.js';
-import { FUNCTIONS, FUNCTION_NAMES, isFunctionName } from './functions/registry.js';
+import { FUNCTIONS, isFunctionName } from './functions/registry.js';
 import { LIMITS } from './limits.js';
-import { orList, suggestion } from '../presentation/nearest-names.js';
+import { ALLOWED_FUNCTIONS, NAME_PATTERN, scan, type Call, type Issue } from './expression-scan.js';
+import { orList } from '../presentation/nearest-names.js';
 import type { Expr } from './types.js';
 
-/** Letters, digits and `_`, starting with a letter (model-format.md, Names). */
-export const NAME_PATTERN = /^[A-Za-z][A-Za-z0-9_]*$/;
-
-/** The registry's function names, as a set for the scan. */
-const ALLOWED_FUNCTIONS: ReadonlySet<string> = new Set(FUNCTION_NAMES);
 
 /** mathjs operator functions we accept, with their arity. */
 const ALLOWED_OPERATORS: ReadonlyMap<string, number> = new Map([
@@ -37,25 +33,12 @@ const ALLOWED_OPERATORS: ReadonlyMap<string, number> = new Map([
   ['smaller', 2], ['smallerEq', 2], ['larger', 2], ['largerEq', 2], ['equal', 2], ['unequal', 2],
 ]);
 
-/** Words the expression parser reads as operators or constants; none is allowed in our expressions. */
-export const PARSER_WORDS: ReadonlySet<string> = new Set([
-  'mod', 'to', 'in', 'and', 'or', 'xor', 'not', 'true', 'false', 'null', 'undefined', 'NaN',
-  'Infinity', 'end',
-]);
-
 export interface ExpressionOptions {
   /**
    * File column (1-based) of the expression's first character, when the text stands in the file
    * exactly as written on one line. Problems then point at the offending character's column.
    */
   textColumn?: number;
-}
-
-interface Issue {
-  /** 0-based index in the text, when known. */
-  index?: number;
-  what: string;
-  fix: string;
 }
 
 /**
@@ -119,218 +102,6 @@ function parserIssue(err: unknown): Issue {
   const msg = String(e.message ?? err).replace(/\s*\(char \d+\)\s*/, ' ').trim();
   const index = typeof e.char === 'number' && e.char > 0 ? e.char - 1 : undefined;
   return { index, what: `cannot be read: ${msg}`, fix: 'check for a missing operand, operator or parenthesis' };
-}
-
-// ---------------------------------------------------------------------------------------------
-// Gate 1: character scan.
-
-const NUMBER_AT = /(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/y;
-const NAME_AT = /[A-Za-z_$][A-Za-z0-9_$]*/y;
-
-interface Call {
-  name: string;
-  index: number;
-}
-
-type Prev = 'start' | 'operand' | 'operator' | 'open' | 'comma' | 'callname';
-
-/** Refuses every construct outside the allowed list, with the index where it starts. */
-function scan(text: string): { issue?: Issue; calls: Call[] } {
-  const calls: Call[] = [];
-  const stack: { kind: 'call' | 'group'; index: number }[] = [];
-  let openQuestions = 0;
-  let prev: Prev = 'start';
-  let i = 0;
-  const fail = (index: number, what: string, fix: string) => ({ issue: { index, what, fix }, calls });
-  const implicit = (index: number, left: string, right: string) =>
-    fail(index, `implicit multiplication ("${left}" directly followed by "${right}") is not allowed`, `write the product with *, e.g. ${left}*${right}`);
-
-  while (i < text.length) {
-    const c = text[i];
-    if (c === ' ' || c === '\t' || c === '\n' || c === '\r') {
-      i++;
-      continue;
-    }
-    if (isDigit(c) || (c === '.' && isDigit(text[i + 1]))) {
-      NUMBER_AT.lastIndex = i;
-      const num = NUMBER_AT.exec(text)![0];
-      const after = i + num.length;
-      if (prev === 'operand') return implicit(i, lastWord(text, i), num);
-      const next = text[after];
-      if (next !== undefined && /[A-Za-z_$]/.test(next)) {
-        if (num === '0' && /[xXbBoO]/.test(next)) {
-          return fail(i, 'hexadecimal, binary and octal numbers are not allowed', 'write the number in decimal');
-        }
-        NAME_AT.lastIndex = after;
-        const name = NAME_AT.exec(text)![0];
-        if (/^[eE]$/.test(name) && /[+-]/.test(text[after + 1] ?? '')) {
-          return fail(i, `the number "${num}${name}${text[after + 1]}" has no exponent digits`, 'write e.g. 1e-3');
-        }
-        return implicit(after, num, name);
-      }
-      if (!Number.isFinite(Number(num))) {
-        return fail(i, `the number ${num} is too large (not a finite double)`, 'write a number below 1.7e308 in size');
-      }
-      prev = 'operand';
-      i = after;
-      continue;
-    }
-    if (/[A-Za-z_$]/.test(c)) {
-      NAME_AT.lastIndex = i;
-      const name = NAME_AT.exec(text)![0];
-      if (prev === 'operand') return implicit(i, lastWord(text, i), name);
-      const word = wordIssue(name);
-      if (word) return fail(i, word.what, word.fix);
-      let j = i + name.length;
-      while (text[j] === ' ' || text[j] === '\t' || text[j] === '\n' || text[j] === '\r') j++;
-      if (text[j] === '(') {
-        if (!ALLOWED_FUNCTIONS.has(name)) {
-          return fail(i, `"${name}(" calls a function "${name}", which is not allowed`,
-            `${suggestion(name, [...ALLOWED_FUNCTIONS], 'functions')} For a product write ${name}*(...)`);
-        }
-        calls.push({ name, index: i });
-        prev = 'callname';
-      } else {
-        if (ALLOWED_FUNCTIONS.has(name)) return fail(i, `"${name}" is a function`, `call it with an argument: ${name}(x)`);
-        prev = 'operand';
-      }
-      i += name.length;
-      continue;
-    }
-    const two = text.slice(i, i + 2);
-    switch (c) {
-      case '(':
-        if (prev === 'operand') return implicit(i, lastWord(text, i), '(');
-        stack.push({ kind: prev === 'callname' ? 'call' : 'group', index: i });
-        if (stack.length > LIMITS.parenDepth) {
-          return fail(i, `parentheses are nested more than ${LIMITS.parenDepth} deep`, 'split the expression into named quantities under `define`');
-        }
-        prev = 'open';
-        i++;
-        continue;
-      case ')':
-        if (!stack.length) return fail(i, 'there is a ")" without a matching "("', 'remove it or add the missing "("');
-        stack.pop();
-        prev = 'operand';
-        i++;
-        continue;
-      case ',':
-        if (!stack.length || stack[stack.length - 1].kind !== 'call') {
-          return fail(i, 'a comma is only allowed between the arguments of a function', 'remove the comma (lists are not allowed)');
-        }
-        prev = 'comma';
-        i++;
-        continue;
-      case '+':
-      case '-':
-      case '/':
-      case '^':
-        prev = 'operator';
-        i++;
-        continue;
-      case '*':
-        if (two === '**') return fail(i, 'the power operator is ^, not **', 'write x^2');
-        prev = 'operator';
-        i++;
-        continue;
-      case '<':
-      case '>':
-        if (two === '<<' || two === '>>') return fail(i, `the bit shift "${two}" is not allowed`, 'use arithmetic: x*2^n');
-        prev = 'operator';
-        i += text[i + 1] === '=' ? 2 : 1;
-        continue;
-      case '=':
-        if (two !== '==') return fail(i, 'assignment "=" is not allowed in an expression', 'to compare, write ==; to name a quantity, use `define`');
-        prev = 'operator';
-        i += 2;
-        continue;
-      case '!':
-        if (two !== '!=') return fail(i, '"!" (factorial or "not") is not allowed', 'to compare, write !=; otherwise use a conditional c ? a : b');
-        prev = 'operator';
-        i += 2;
-        continue;
-      case '?':
-        openQuestions++;
-        prev = 'operator';
-        i++;
-        continue;
-      case ':':
-        if (openQuestions === 0) return fail(i, 'a range ":" is not allowed', 'the only ":" allowed is in a conditional: c ? a : b');
-        openQuestions--;
-        prev = 'operator';
-        i++;
-        continue;
-      case '.':
-        if ('*/^'.includes(text[i + 1] ?? '')) {
-          return fail(i, `the element-wise operator "${two}" is not allowed`, `write ${two[1]}`);
-        }
-        return fail(i, 'property access "." is not allowed', 'use only declared names, numbers, operators and the allowed functions');
-      case '"':
-      case '`':
-        return fail(i, 'strings are not allowed in an expression', 'use only declared names, numbers, operators and the allowed functions');
-      case "'":
-        return fail(i, 'quotes (strings or transposition) are not allowed in an expression', 'remove the quote');
-      case '[':
-      case ']':
-        return fail(i, 'square brackets (indexing, arrays or matrices) are not allowed', 'use ( ) for grouping; every quantity is a scalar');
-      case '{':
-      case '}':
-        return fail(i, 'braces (objects) are not allowed in an expression', 'use ( ) for grouping');
-      case ';':
-        return fail(i, 'several statements (";") are not allowed', 'write a single expression; name parts under `define`');
-      case '%':
-        return fail(i, 'modulus and percent ("%") are not allowed', 'write the arithmetic out, e.g. x/100');
-      case '&':
-      case '|':
-      case '~':
-        return fail(i, `the logical or bitwise operator "${c}" is not allowed`, 'use comparisons and conditionals: c ? a : b');
-      case '#':
-        return fail(i, 'comments ("#") are not allowed inside an expression', 'put the comment after the value, outside any quotes');
-      default:
-        return fail(i, `the character "${c}" is not allowed in an expression`,
-          'use letters, digits, _, spaces, + - * / ^ ( ) , < > = ! ? : and .');
-    }
-  }
-  if (stack.length) {
-    const open = stack[stack.length - 1];
-    return fail(open.index, 'this "(" is never closed', 'add the missing ")"');
-  }
-  return { calls };
-}
-
-function isDigit(c: string | undefined): boolean {
-  return c !== undefined && c >= '0' && c <= '9';
-}
-
-/** The token that ends just before `index` (for messages about implicit multiplication). */
-function lastWord(text: string, index: number): string {
-  const m = /([A-Za-z0-9_.$]+|\))\s*$/.exec(text.slice(0, index));
-  return m ? m[1] : text.slice(Math.max(0, index - 1), index);
-}
-
-/** Why a name-like word cannot appear in an expression, or undefined when it may. */
-function wordIssue(name: string): { what: string; fix: string } | undefined {
-  if (PARSER_WORDS.has(name)) {
-    const fixes: Record<string, string> = {
-      and: 'use nested conditionals: a ? (b ? x : y) : y',
-      or: 'use nested conditionals: a ? x : (b ? x : y)',
-      xor: 'use nested conditionals',
-      not: 'invert the comparison (< becomes >=)',
-      mod: 'write the arithmetic out',
-      to: 'values are in the declared units; unit conversion is not written in expressions',
-      in: 'values are in the declared units; unit conversion is not written in expressions',
-      true: 'write 1',
-      false: 'write 0',
-    };
-    return { what: `"${name}" is not allowed in an expression`, fix: fixes[name] ?? 'use only finite numbers, declared names and the allowed functions' };
-  }
-  if (!NAME_PATTERN.test(name)) {
-    return { what: `"${name}" is not a valid name`, fix: 'names use letters, digits and _, starting with a letter' };
-  }
-  if (name in Object.prototype || name === 'prototype') {
-    return { what: `"${name}" is not allowed in an expression`, fix: 'use only declared names' };
-  }
-  return undefined;
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -26,20 +26,7 @@ import { applyJumpCondition, holdValueIn, NonFiniteState, prepareRun, rightHandS
 import { segmentBounds, stepEnds } from './segments.js';
 import { diagnoseStepLimit, stiffnessWarning } from './stiffness.js';
 import { tolerances, type Tolerances } from './tolerances.js';
-import type { SimulationOptions, SimulationOutcome } from './types.js';
-
-/** What drives one simulation: sample times, the integration start, and the logged inputs. */
-export interface Drive {
-  /** Experiment name for results and messages. */
-  name: string;
-  /** Experiment index for initial values (-1: none, declared initial values). */
-  experimentIndex: number;
-  /** Sample times in model time units, strictly increasing, all >= start. */
-  time: Float64Array;
-  start: number;
-  /** Per model input, one value per sample, in the input's unit. */
-  inputs: Float64Array[];
-}
+import type { SimulationInputs, SimulationOptions, SimulationOutcome } from './types.js';
 
 /** Default step limit per segment: generous for logs (several steps per sample) yet finite. */
 export function defaultMaxSteps(samplesInSegment: number): number {
@@ -77,7 +64,7 @@ interface Cursor {
  * Integrate the model along `drive`. A run that cannot finish (non-finite initial value or state,
  * step limit) answers a failure value that says where and with which parameter values.
  */
-export function integrate(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationOutcome {
+export function integrate(compiled: CompiledModel, drive: SimulationInputs, p: Float64Array, options: SimulationOptions = {}): SimulationOutcome {
   const run = prepareRun(compiled, drive, p, options);
   const { n, N, sens } = run;
   // Initial state at the start.

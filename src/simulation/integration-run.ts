@@ -5,12 +5,11 @@
  */
 import type { CompiledModel, SensitivitySystem } from '../model/compiled-types.js';
 import { InputTrack } from './input-track.js';
-import type { Drive } from './integrate.js';
-import type { SimulationOptions, SimulationStats } from './types.js';
+import type { SimulationInputs, SimulationOptions, SimulationStats } from './types.js';
 
 export interface IntegrationRun {
   compiled: CompiledModel;
-  drive: Drive;
+  drive: SimulationInputs;
   p: Float64Array;
   /** States, inputs, outputs, samples, sensitivity columns; N = size of z = [x, S]. */
   n: number;
@@ -53,7 +52,7 @@ export function inputDelays(compiled: CompiledModel, p: Float64Array): number[] 
   });
 }
 
-export function prepareRun(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions): IntegrationRun {
+export function prepareRun(compiled: CompiledModel, drive: SimulationInputs, p: Float64Array, options: SimulationOptions): IntegrationRun {
   const model = compiled.model;
   const { nStates: n, nInputs: nIn, nOutputs: nOut } = compiled;
   const M = drive.time.length;

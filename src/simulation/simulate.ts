@@ -6,12 +6,12 @@ import { UserError } from '../errors.js';
 import type { CompiledModel } from '../model/compiled-types.js';
 import type { ExperimentData } from '../data/types.js';
 import { nearestNames } from '../presentation/nearest-names.js';
-import { integrate, type Drive } from './integrate.js';
+import { integrate } from './integrate.js';
 import { resultOrThrow } from './outcome.js';
 import { evaluateStatic } from './static-model.js';
-import type { SimulationOptions, SimulationOutcome, SimulationResult } from './types.js';
+import type { SimulationInputs, SimulationOptions, SimulationOutcome, SimulationResult } from './types.js';
 
-function run(compiled: CompiledModel, drive: Drive, p: Float64Array, options?: SimulationOptions): SimulationOutcome {
+function run(compiled: CompiledModel, drive: SimulationInputs, p: Float64Array, options?: SimulationOptions): SimulationOutcome {
   if (p.length !== compiled.nParams) throw new RangeError(`parameter vector has ${p.length} entries, the model ${compiled.nParams}`);
   return compiled.nStates === 0 ? evaluateStatic(compiled, drive, p, options) : integrate(compiled, drive, p, options);
 }

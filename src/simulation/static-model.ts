@@ -3,12 +3,11 @@
  * row. No time, no interpolation, no integration.
  */
 import type { CompiledModel } from '../model/compiled-types.js';
-import type { Drive } from './integrate.js';
 import { simulationFailed } from './outcome.js';
-import type { SimulationOptions, SimulationOutcome } from './types.js';
+import type { SimulationInputs, SimulationOptions, SimulationOutcome } from './types.js';
 
 /** Evaluate the outputs row by row; a non-finite output answers a failure value naming the row. */
-export function evaluateStatic(compiled: CompiledModel, drive: Drive, p: Float64Array, options: SimulationOptions = {}): SimulationOutcome {
+export function evaluateStatic(compiled: CompiledModel, drive: SimulationInputs, p: Float64Array, options: SimulationOptions = {}): SimulationOutcome {
   const M = drive.time.length;
   const nIn = compiled.nInputs;
   const nOut = compiled.nOutputs;

@@ -53,3 +53,19 @@ export interface SimulationFailure {
 
 /** A simulation's answer: its result, or why it failed. An expected failure is a value, not an exception. */
 export type SimulationOutcome = { ok: true; result: SimulationResult } | { ok: false; failure: SimulationFailure };
+
+/**
+ * What one simulation is run on: which experiment, its sample times, the integration start and the
+ * logged inputs (an experiment's data, or a span of constant inputs for `simulate --duration`).
+ */
+export interface SimulationInputs {
+  /** Experiment name for results and messages. */
+  name: string;
+  /** Experiment index for initial values (-1: none, declared initial values). */
+  experimentIndex: number;
+  /** Sample times in model time units, strictly increasing, all >= start. */
+  time: Float64Array;
+  start: number;
+  /** Per model input, one value per sample, in the input's unit. */
+  inputs: Float64Array[];
+}

@@ -2,7 +2,7 @@
  * Rules for the names a model declares (states, inputs, parameters, defines, outputs) and for
  * experiment and model names, which also end up in file and folder names.
  */
-import { NAME_PATTERN, PARSER_WORDS } from '../expression-check.js';
+import { NAME_PATTERN, PARSER_WORDS } from '../expression-scan.js';
 import { isFunctionName } from '../functions/registry.js';
 import { LIMITS } from '../limits.js';
 
