@@ -17,6 +17,7 @@
  * Pairs of determined parameters with |correlation| > 0.95 are flagged with a sentence (common
  * practice, no source: a correlation that close to 1 means the data hardly separate the two).
  */
+import { formatDecimals } from '../presentation/numbers.js';
 import type { IdentifiabilityProblem } from './fit/fit-result.js';
 import { toRowMajor } from './solver/row-major.js';
 import { meaningfulChanges, NULL_COMPONENT, scaledSvd, SINGULAR_THRESHOLD } from './solver/scaled-svd.js';
@@ -157,7 +158,7 @@ export function analyseIdentifiability(input: IdentifiabilityInput): Identifiabi
       const largest = Math.max(...relative.map((r) => (Number.isFinite(r) ? Math.abs(r) : 0)));
       const parts = idx.map((_, m) => {
         const r = relative[m]!;
-        return Number.isFinite(r) && largest > 0 ? `${r >= 0 ? '+' : '-'}${Math.abs(r / largest).toFixed(2)} ${names[m]}` : `${names[m]}`;
+        return Number.isFinite(r) && largest > 0 ? `${r >= 0 ? '+' : '-'}${formatDecimals(Math.abs(r / largest), 2)} ${names[m]}` : `${names[m]}`;
       });
       message =
         `${listNames(names)} are not determined separately by these data: changing them together ` +
@@ -176,7 +177,7 @@ export function analyseIdentifiability(input: IdentifiabilityInput): Identifiabi
         const nb = input.names[b] ?? `theta${b}`;
         const how = r > 0 ? 'their estimates err in the same direction' : 'their estimates err in opposite directions';
         warnings.push(
-          `${na} and ${nb} are strongly correlated (correlation ${r.toFixed(3)}): ${how}, and these data hardly separate them; ` +
+          `${na} and ${nb} are strongly correlated (correlation ${formatDecimals(r, 3)}): ${how}, and these data hardly separate them; ` +
             'an experiment that excites them differently, or fixing one from a measurement, would help',
         );
       }

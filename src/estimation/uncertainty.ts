@@ -19,6 +19,7 @@
  * zero or negative values. It is not symmetric about the estimate; value +- t * se_value would
  * be symmetric but can cross zero and covers less when se_theta is large.
  */
+import { formatSignificant } from '../presentation/numbers.js';
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import { toRowMajor } from './solver/row-major.js';
 import { meaningfulChanges, scaledSvd, SINGULAR_THRESHOLD } from './solver/scaled-svd.js';
@@ -81,9 +82,7 @@ export interface UncertaintyResult {
   warnings: string[];
 }
 
-function formatNumber(x: number): string {
-  return Number(x.toPrecision(6)).toString();
-}
+const formatNumber = (x: number): string => formatSignificant(x, 6);
 
 export function computeUncertainty(input: UncertaintyInput): UncertaintyResult {
   const p = input.theta.length;

@@ -16,6 +16,7 @@ import path from 'node:path';
 import { isDeepStrictEqual } from 'node:util';
 import { Pair, Scalar, YAMLMap, YAMLSeq, isMap, isScalar, isSeq, parseDocument, type Document } from 'yaml';
 import { UserError, type Problem } from '../errors.js';
+import { formatSignificant } from '../presentation/numbers.js';
 import type { FreeParameterSpec, Model } from '../model/types.js';
 import type { EstimateEntry, EstimatesFile } from '../files/estimates-file.js';
 import type { FreezePlan } from './freeze-plan.js';
@@ -315,5 +316,5 @@ function unitSuffix(unit: string): string {
 /** Six significant digits for comments (the values themselves are written in full precision). */
 function show(v: number): string {
   if (!Number.isFinite(v)) return String(v);
-  return String(Number(v.toPrecision(6)));
+  return formatSignificant(v, 6);
 }

@@ -82,9 +82,28 @@ export function formatPValueClause(p: number, digits = 3): string {
   return shown.startsWith('<') ? `p ${shown}` : `p = ${shown}`;
 }
 
+/** A fixed number of decimals, for values read on a fixed scale (coefficients of a direction, correlations). */
+export function formatDecimals(x: number, decimals: number): string {
+  return x.toFixed(decimals);
+}
+
 /** A correlation coefficient (or a band of one): two decimals, as correlations are read. */
 export function formatCorrelation(r: number): string {
-  return r.toFixed(2);
+  return formatDecimals(r, 2);
+}
+
+/**
+ * A value quoted in a message or comment (parameter values at a failure, log-likelihoods compared,
+ * a frozen value): `digits` significant digits in JavaScript's shortest form (0.000123, 1.23e-7,
+ * 1234567), so that it can be copied back into a model file as it stands.
+ */
+export function formatSignificant(x: number, digits: number): string {
+  return String(Number(x.toPrecision(digits)));
+}
+
+/** A tolerance or relative noise level: one significant digit in exponent form, e.g. 1e-14, 6e-8. */
+export function formatTolerance(x: number): string {
+  return x.toExponential(0).replace('e+', 'e');
 }
 
 /** A wall-clock time of our own work, e.g. "1.4 s": three significant digits. */

@@ -204,7 +204,7 @@ function stepLimitFailure(run: IntegrationRun, cursor: Cursor, a: number, b: num
   const { compiled, p, u, udot } = run;
   const xs = cursor.lastZ.subarray(0, run.n);
   for (const j of run.linearIdx) run.tracks[j].fill(cursor.lastX, u, udot, j);
-  const d = diagnoseStepLimit(compiled, cursor.lastX, Float64Array.from(xs), u, p, a, cursor.lastX, b - a, cursor.stepsInSegment);
+  const d = diagnoseStepLimit({ compiled, t: cursor.lastX, x: Float64Array.from(xs), u, p }, { from: a, to: cursor.lastX, steps: cursor.stepsInSegment }, b - a);
   return stepLimitReached(compiled, run.drive.name, cursor.lastX, p, d);
 }
 
@@ -215,6 +215,6 @@ function stiffnessWarnings(run: IntegrationRun, z: Float64Array): string[] {
   const tEnd = drive.time[M - 1];
   const xEnd = z.subarray(0, run.n);
   for (const j of run.linearIdx) run.tracks[j].fill(tEnd, u, udot, j);
-  const w = stiffnessWarning(run.compiled, tEnd, Float64Array.from(xEnd), u, run.p, drive.start, tEnd, stats.steps);
+  const w = stiffnessWarning({ compiled: run.compiled, t: tEnd, x: Float64Array.from(xEnd), u, p: run.p }, { from: drive.start, to: tEnd, steps: stats.steps });
   return w ? [`experiment ${drive.name}: ${w}`] : [];
 }

@@ -2,6 +2,7 @@
  * The words of a simulation that cannot finish: where (experiment, time), what, and with which
  * parameter values, as failure values (numerics.md, Integration).
  */
+import { formatSignificant } from '../presentation/numbers.js';
 import type { CompiledModel } from '../model/compiled-types.js';
 import { simulationFailed } from './outcome.js';
 import type { StepLimitDiagnosis } from './stiffness.js';
@@ -9,7 +10,7 @@ import type { SimulationOutcome } from './types.js';
 
 export function formatParameters(compiled: CompiledModel, p: Float64Array): string {
   const names = [...compiled.paramSlot.entries()].sort((a, b) => a[1] - b[1]);
-  const parts = names.map(([name, slot]) => `${name}=${Number(p[slot].toPrecision(6))}`);
+  const parts = names.map(([name, slot]) => `${name}=${formatSignificant(p[slot], 6)}`);
   return parts.length > 12 ? parts.slice(0, 12).join(', ') + `, ... (${parts.length} in all)` : parts.join(', ');
 }
 
@@ -54,7 +55,7 @@ export function nonFiniteState(compiled: CompiledModel, experiment: string, p: F
   const known = Number.isFinite(at.t);
   const time = known ? at.t : lastX;
   return simulationFailed(
-    `cannot simulate experiment ${experiment}: ${what} ${known ? 'at' : 'after'} t=${Number(time.toPrecision(6))} ${model.timeUnit} (parameters ${formatParameters(compiled, p)}); check the equations for division by zero or overflow at these values`,
+    `cannot simulate experiment ${experiment}: ${what} ${known ? 'at' : 'after'} t=${formatSignificant(time, 6)} ${model.timeUnit} (parameters ${formatParameters(compiled, p)}); check the equations for division by zero or overflow at these values`,
     { experiment, time, parameters: parameterRecord(compiled, p) },
   );
 }

@@ -7,6 +7,7 @@
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import type { CompiledModel } from '../model/compiled-types.js';
+import { formatSignificant } from '../presentation/numbers.js';
 
 export interface StepLimitDiagnosis {
   stiff: boolean;
@@ -16,9 +17,23 @@ export interface StepLimitDiagnosis {
   text: string;
 }
 
-function fmt(v: number): string {
-  return Number(v.toPrecision(3)).toString();
+/** Where the integrator stands: the model, time, states, inputs and parameters. */
+export interface ModelPoint {
+  compiled: CompiledModel;
+  t: number;
+  x: Float64Array;
+  u: Float64Array;
+  p: Float64Array;
 }
+
+/** The stretch the integrator covered: from `from` to `to` in `steps` accepted steps. */
+export interface StepRun {
+  from: number;
+  to: number;
+  steps: number;
+}
+
+const fmt = (v: number): string => formatSignificant(v, 3);
 
 /** Time constants 1/|lambda| of df/dx at (t, x, u), largest first; [] when not computable. */
 export function timeConstants(compiled: CompiledModel, t: number, x: Float64Array, u: Float64Array, p: Float64Array): number[] {
@@ -46,23 +61,14 @@ export function timeConstants(compiled: CompiledModel, t: number, x: Float64Arra
 }
 
 /**
- * Diagnose a step limit hit between `from` and `reached` after `steps` accepted steps.
- * `span` is the length of the segment the integrator was asked to cover.
+ * Diagnose a step limit hit at `at`, the run having reached `run.to` from `run.from` in `run.steps`
+ * accepted steps. `span` is the length of the segment the integrator was asked to cover.
  */
-export function diagnoseStepLimit(
-  compiled: CompiledModel,
-  t: number,
-  x: Float64Array,
-  u: Float64Array,
-  p: Float64Array,
-  from: number,
-  reached: number,
-  span: number,
-  steps: number,
-): StepLimitDiagnosis {
-  const unit = compiled.model.timeUnit;
+export function diagnoseStepLimit(at: ModelPoint, run: StepRun, span: number): StepLimitDiagnosis {
+  const { from, to: reached, steps } = run;
+  const unit = at.compiled.model.timeUnit;
   const meanStep = steps > 0 ? (reached - from) / steps : 0;
-  const taus = timeConstants(compiled, t, x, u, p);
+  const taus = timeConstants(at.compiled, at.t, at.x, at.u, at.p);
   const where = `between t=${fmt(from)} and ${fmt(reached)} ${unit}`;
   if (taus.length) {
     const fastest = taus[taus.length - 1];
@@ -99,23 +105,15 @@ export function diagnoseStepLimit(
  * For a run that succeeded with many steps: words when the model looks stiff (time constants
  * more than 1e3 apart and the steps held near the fastest one), else undefined.
  */
-export function stiffnessWarning(
-  compiled: CompiledModel,
-  t: number,
-  x: Float64Array,
-  u: Float64Array,
-  p: Float64Array,
-  from: number,
-  to: number,
-  steps: number,
-): string | undefined {
-  const taus = timeConstants(compiled, t, x, u, p);
+export function stiffnessWarning(at: ModelPoint, run: StepRun): string | undefined {
+  const { from, to, steps } = run;
+  const taus = timeConstants(at.compiled, at.t, at.x, at.u, at.p);
   if (taus.length < 2) return undefined;
   const fastest = taus[taus.length - 1];
   const slowest = taus[0];
   const meanStep = (to - from) / steps;
   if (slowest / fastest < 1e3 || meanStep > 20 * fastest) return undefined;
-  const unit = compiled.model.timeUnit;
+  const unit = at.compiled.model.timeUnit;
   return (
     `the model looks stiff between t=${fmt(from)} and ${fmt(to)} ${unit}: time constants differ by ~1e${Math.round(Math.log10(slowest / fastest))} ` +
     `(fastest ${fmt(fastest)} ${unit}, slowest ${fmt(slowest)} ${unit}), so it took ${steps} steps of about ${fmt(meanStep)} ${unit}; ` +

@@ -12,6 +12,7 @@
  * expression or initial value that is only a number (`initial: 20` for a state in degC) is in the
  * unit of the place it stands in.
  */
+import { formatSignificant } from '../presentation/numbers.js';
 import type { MathNode } from 'mathjs';
 import type { ProblemList } from '../errors.js';
 import { FUNCTIONS, isFunctionName } from '../model/functions/registry.js';
@@ -72,7 +73,7 @@ export function describeQuantity(q: Quantity): string {
 }
 
 function formatNumber(x: number): string {
-  return Number.isInteger(x) ? String(x) : String(+x.toPrecision(6));
+  return Number.isInteger(x) ? String(x) : formatSignificant(x, 6);
 }
 
 export function isPlain(q: Quantity): boolean {

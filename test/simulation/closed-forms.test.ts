@@ -277,7 +277,7 @@ describe('stiffness words on a run that succeeds', () => {
     // i.e. 6 (1 - e^{-20}) rad/s at t = 20 s
     expect(Math.abs(r.outputs[0][200] - 6 * (1 - Math.exp(-20)))).toBeLessThan(1e-7 * 6);
     // A run that did crawl (30,000 steps of 20 s / 30,000 near the fast time constant) gets the words.
-    const words = stiffnessWarning(c, 20, Float64Array.of(12, 6), Float64Array.of(12), c.defaultParams(), 0, 20, 30_000);
+    const words = stiffnessWarning({ compiled: c, t: 20, x: Float64Array.of(12, 6), u: Float64Array.of(12), p: c.defaultParams() }, { from: 0, to: 20, steps: 30_000 });
     expect(words).toMatch(/looks stiff between t=0 and 20 s: time constants differ by ~1e4/);
     // and a model that is not stiff gets no warning
     const easy = rlInertia(0.5, 1, 0.5, 1, 1);

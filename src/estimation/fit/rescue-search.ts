@@ -6,6 +6,7 @@
 import type { ExperimentData } from '../../data/types.js';
 import type { CompiledModel } from '../../model/compiled-types.js';
 import type { Model } from '../../model/types.js';
+import { formatSignificant } from '../../presentation/numbers.js';
 import type { FitCollaborators } from './collaborators.js';
 import { fitOnce } from './fit-once.js';
 import type { FitOptions } from './fit-options.js';
@@ -40,7 +41,7 @@ function betterOfBoth(first: CompletedFit, spread: CompletedFit, hint: LocalOpti
   const better = b.statistics.logLikelihood > a.statistics.logLikelihood + RESCUE_MIN_GAIN;
   const chosen = better ? spread : first;
   const r = chosen.result;
-  const logL = (x: number) => Number(x.toPrecision(8)).toString();
+  const logL = (x: number) => formatSignificant(x, 8);
   const searched = `${hint.finding}; ${RESCUE_STARTS} starts spread over the bounds (seed ${seed})`;
   const said = better
     ? `${searched} found a better optimum (log-likelihood ${logL(b.statistics.logLikelihood)} against ${logL(a.statistics.logLikelihood)}), which is reported here`

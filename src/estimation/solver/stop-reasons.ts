@@ -12,6 +12,8 @@
  * {why} is the words of the last evaluation that failed.
  */
 
+import { formatTolerance } from '../../presentation/numbers.js';
+
 export type StopStatus = 'converged' | 'stopped' | 'failed';
 
 export interface StopReasonEntry {
@@ -113,10 +115,6 @@ export interface StopDetails {
   why?: string;
 }
 
-/** A tolerance in one significant digit: 1e-14, 6e-8. */
-function formatTolerance(x: number): string {
-  return x.toExponential(0).replace('e+', 'e');
-}
 
 function placeholderValue(name: string, details: StopDetails): string {
   switch (name) {
