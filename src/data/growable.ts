@@ -1,39 +1,32 @@
-/** A Float64Array that grows by doubling, so reading a log costs no per-row allocation. */
-export class GrowableF64 {
-  private buf: Float64Array;
+/** A typed array that grows by doubling, so reading a log costs no per-row allocation. */
+class Growable<A extends Float64Array | Int32Array> {
+  private buf: A;
   length = 0;
-  constructor(capacity = 1024) {
-    this.buf = new Float64Array(capacity);
+  constructor(private readonly make: (n: number) => A, capacity = 1024) {
+    this.buf = make(capacity);
   }
   push(v: number): void {
     if (this.length === this.buf.length) {
-      const next = new Float64Array(this.buf.length * 2);
+      const next = this.make(this.buf.length * 2);
       next.set(this.buf);
       this.buf = next;
     }
     this.buf[this.length++] = v;
   }
   /** A copy trimmed to the used length. */
-  toArray(): Float64Array {
-    return this.buf.slice(0, this.length);
+  toArray(): A {
+    return this.buf.slice(0, this.length) as A;
   }
 }
 
-export class GrowableI32 {
-  private buf: Int32Array;
-  length = 0;
+export class GrowableF64 extends Growable<Float64Array> {
   constructor(capacity = 1024) {
-    this.buf = new Int32Array(capacity);
+    super((n) => new Float64Array(n), capacity);
   }
-  push(v: number): void {
-    if (this.length === this.buf.length) {
-      const next = new Int32Array(this.buf.length * 2);
-      next.set(this.buf);
-      this.buf = next;
-    }
-    this.buf[this.length++] = v;
-  }
-  toArray(): Int32Array {
-    return this.buf.slice(0, this.length);
+}
+
+export class GrowableI32 extends Growable<Int32Array> {
+  constructor(capacity = 1024) {
+    super((n) => new Int32Array(n), capacity);
   }
 }

@@ -134,3 +134,34 @@ export function emitBody(pool: ExprPool, assignments: readonly Assignment[], rea
 export function buildFunction<F>(params: readonly string[], body: string): F {
   return new Function(...params, body) as F;
 }
+
+/** The initial-value functions of a model: the states' own, and one per experiment. */
+export interface InitialFunctions<F> {
+  base: F;
+  byExperiment: F[];
+  /** The distinct bodies, for inspection and tests. */
+  bodies: string[];
+}
+
+/**
+ * One function per distinct list of initial-value nodes (experiments without overrides share the
+ * states' own), built from the body `emit` writes for a list, in the order the lists come.
+ */
+export function initialFunctions<F>(lists: readonly (readonly number[])[], params: readonly string[], emit: (list: readonly number[]) => string): InitialFunctions<F> {
+  const bodies: string[] = [];
+  const fns: F[] = [];
+  const fnOfList = new Map<string, number>();
+  const indexOf = lists.map((list) => {
+    const key = list.join(',');
+    let index = fnOfList.get(key);
+    if (index === undefined) {
+      const body = emit(list);
+      index = fns.length;
+      bodies.push(body);
+      fns.push(buildFunction<F>(params, body));
+      fnOfList.set(key, index);
+    }
+    return index;
+  });
+  return { base: fns[indexOf[0]!]!, byExperiment: indexOf.slice(1).map((i) => fns[i]!), bodies };
+}

@@ -14,7 +14,7 @@
 import { UserError } from '../../errors.js';
 import type { CompiledModel, Vec } from '../compiled-types.js';
 import type { Model } from '../types.js';
-import { buildFunction, emitBody, type Assignment, type SymbolReader } from './emit.js';
+import { buildFunction, emitBody, initialFunctions, type Assignment, type SymbolReader } from './emit.js';
 import { ExpressionTooLarge } from './ir.js';
 import { lowerModel, type LoweredModel } from './lower.js';
 import { buildSensitivitySystem, type CompiledSensitivitySystem } from './sensitivity.js';
@@ -115,27 +115,9 @@ function compile(model: Model, options: CompileOptions): CompiledModelDetails {
   const rhsBody = emitBody(pool, rhsAssign, plainReader);
   const outBody = emitBody(pool, outAssign, plainReader);
 
-  const initBodies: string[] = [];
-  const initFns: InitFn[] = [];
-  const fnOfList = new Map<string, number>();
-  const initIndexOf = [low.initialBase, ...low.initialByExperiment].map((list) => {
-    const key = list.join(',');
-    let index = fnOfList.get(key);
-    if (index === undefined) {
-      const body = emitBody(
-        pool,
-        list.map((raw, i) => ({ target: 'x0', index: i, node: low.resolve(raw) })),
-        plainReader,
-      );
-      index = initFns.length;
-      initBodies.push(body);
-      initFns.push(buildFunction<InitFn>(['p', 'x0'], body));
-      fnOfList.set(key, index);
-    }
-    return index;
-  });
-  const baseInit = initFns[initIndexOf[0]!]!;
-  const initByExperiment = initIndexOf.slice(1).map((i) => initFns[i]!);
+  const init = initialFunctions<InitFn>([low.initialBase, ...low.initialByExperiment], ['p', 'x0'], (list) =>
+    emitBody(pool, list.map((raw, i) => ({ target: 'x0', index: i, node: low.resolve(raw) })), plainReader),
+  );
 
   const defaults = model.parameters.map((p) => (p.kind === 'fixed' ? p.value : p.start));
   const sensitivityCache = new Map<string, CompiledSensitivitySystem>();
@@ -152,7 +134,7 @@ function compile(model: Model, options: CompileOptions): CompiledModelDetails {
     outputs: buildFunction<OutFn>(['t', 'x', 'u', 'p', 'y'], outBody),
     /** An experiment index outside the model's list (e.g. -1) gives the states' own initial values. */
     initial(experiment: number, p: Vec, x0: Vec): void {
-      (initByExperiment[experiment] ?? baseInit)(p, x0);
+      (init.byExperiment[experiment] ?? init.base)(p, x0);
     },
     sensitivity(slots: readonly number[]): CompiledSensitivitySystem {
       const key = slots.join(',');
@@ -168,7 +150,7 @@ function compile(model: Model, options: CompileOptions): CompiledModelDetails {
       return system;
     },
     structure: describeStructure(model, low),
-    source: { rhs: rhsBody, outputs: outBody, initial: initBodies },
+    source: { rhs: rhsBody, outputs: outBody, initial: init.bodies },
   };
 }
 

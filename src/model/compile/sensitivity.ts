@@ -14,7 +14,7 @@
  *   S(t0) = dx0/dp
  */
 import type { SensitivitySystem, Vec } from '../compiled-types.js';
-import { buildFunction, emitBody, type Assignment, type SymbolReader } from './emit.js';
+import { buildFunction, emitBody, initialFunctions, type Assignment, type InitialFunctions, type SymbolReader } from './emit.js';
 import type { LoweredModel } from './lower.js';
 
 export interface CompiledSensitivitySystem extends SensitivitySystem {
@@ -62,7 +62,7 @@ export function buildSensitivitySystem(low: LoweredModel, slots: readonly number
     for (let k = 0; k < q; k++) outAssign.push({ target: 'dy', index: o * q + k, node: low.resolve(tangent(raw, k)) });
   });
   const outBody = emitBody(pool, outAssign, reader);
-  const init = initialFunctions(low, q, tangent, reader);
+  const init = sensitivityInitials(low, q, tangent, reader);
 
   return {
     slots: [...slots],
@@ -215,28 +215,15 @@ function stateVectorReader(n: number): SymbolReader {
   };
 }
 
-/** One function per distinct list of initial values (experiments without overrides share the states' own). */
-function initialFunctions(low: LoweredModel, q: number, tangent: (raw: number, k: number) => number, reader: SymbolReader): { base: InitFn; byExperiment: InitFn[]; bodies: string[] } {
+/** Initial values and their sensitivities, z0 = [x0, dx0/dp]. */
+function sensitivityInitials(low: LoweredModel, q: number, tangent: (raw: number, k: number) => number, reader: SymbolReader): InitialFunctions<InitFn> {
   const n = low.nStates;
-  const bodies: string[] = [];
-  const fns: InitFn[] = [];
-  const fnOfList = new Map<string, number>();
-  const indexOf = [low.initialBase, ...low.initialByExperiment].map((list) => {
-    const key = list.join(',');
-    let index = fnOfList.get(key);
-    if (index === undefined) {
-      const assign: Assignment[] = [];
-      list.forEach((raw, i) => assign.push({ target: 'z0', index: i, node: low.resolve(raw) }));
-      list.forEach((raw, i) => {
-        for (let k = 0; k < q; k++) assign.push({ target: 'z0', index: n + i * q + k, node: low.resolve(tangent(raw, k)) });
-      });
-      const body = emitBody(low.pool, assign, reader);
-      index = fns.length;
-      bodies.push(body);
-      fns.push(buildFunction<InitFn>(['p', 'z0'], body));
-      fnOfList.set(key, index);
-    }
-    return index;
+  return initialFunctions<InitFn>([low.initialBase, ...low.initialByExperiment], ['p', 'z0'], (list) => {
+    const assign: Assignment[] = [];
+    list.forEach((raw, i) => assign.push({ target: 'z0', index: i, node: low.resolve(raw) }));
+    list.forEach((raw, i) => {
+      for (let k = 0; k < q; k++) assign.push({ target: 'z0', index: n + i * q + k, node: low.resolve(tangent(raw, k)) });
+    });
+    return emitBody(low.pool, assign, reader);
   });
-  return { base: fns[indexOf[0]!]!, byExperiment: indexOf.slice(1).map((i) => fns[i]!), bodies };
 }

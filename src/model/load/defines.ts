@@ -7,15 +7,11 @@ import { symbolsOf } from '../expression-check.js';
 import type { DefineSpec } from '../types.js';
 import { declare, readExpression, type LoadState } from './load-state.js';
 import { LIMITS } from '../limits.js';
-import { at, deref, mapEntries, type YNode } from './yaml-source.js';
+import { at, sectionEntries, type YNode } from './yaml-source.js';
 
 export function readDefines(st: LoadState, node: YNode, path = 'define'): DefineSpec[] {
-  const entries = mapEntries(st.ctx, node, path, 'define');
+  const entries = sectionEntries(st.ctx, node, path, 'define', LIMITS.defines, 'defines');
   if (!entries) return [];
-  if (entries.length > LIMITS.defines) {
-    st.ctx.problems.add(at(st.ctx, deref(st.ctx, node), path), `more than ${LIMITS.defines} defines`, 'a model this large is not supported');
-    return [];
-  }
   const out: DefineSpec[] = [];
   for (const e of entries) {
     const ok = declare(st, e.key, 'define', e.keyNode, e.path);

@@ -3,19 +3,15 @@ import type { InputSpec, Interpolation } from '../types.js';
 import { declare, type LoadState } from './load-state.js';
 import { LIMITS } from '../limits.js';
 import {
-  at, byKey, deref, describeNode, isNullish, mapEntries, readChoice, readString, scalarOf, type YNode,
+  at, byKey, deref, describeNode, isNullish, mapEntries, readChoice, readString, scalarOf, sectionEntries, type YNode,
 } from './yaml-source.js';
 
 export const INPUT_KEYS = ['unit', 'column', 'column_unit', 'interpolate', 'delay'] as const;
 
 export function readInputs(st: LoadState, node: YNode, path = 'inputs'): InputSpec[] {
   const { ctx } = st;
-  const entries = mapEntries(ctx, node, path, 'inputs');
+  const entries = sectionEntries(ctx, node, path, 'inputs', LIMITS.inputs, 'inputs');
   if (!entries) return [];
-  if (entries.length > LIMITS.inputs) {
-    ctx.problems.add(at(ctx, deref(ctx, node), path), `more than ${LIMITS.inputs} inputs`, 'a model this large is not supported');
-    return [];
-  }
   const out: InputSpec[] = [];
   for (const e of entries) {
     const ok = declare(st, e.key, 'input', e.keyNode, e.path);

@@ -5,7 +5,7 @@ import { NAME_PATTERN } from './names.js';
 import type { SourceLocation } from '../../errors.js';
 import { LIMITS } from '../limits.js';
 import { parseExpression } from '../expression-check.js';
-import { at, byKey, deref, isNullish, mapEntries, readNumber, readString, type YNode } from './yaml-source.js';
+import { at, byKey, deref, isNullish, mapEntries, readNumber, readString, sectionEntries, type YNode } from './yaml-source.js';
 
 export const OUTPUT_KEYS = ['expr', 'unit', 'column', 'column_unit', 'sigma'] as const;
 
@@ -18,12 +18,8 @@ export interface OutputDraft {
 
 export function readOutputs(st: LoadState, node: YNode, path = 'outputs'): OutputDraft[] {
   const { ctx } = st;
-  const entries = mapEntries(ctx, node, path, 'outputs');
+  const entries = sectionEntries(ctx, node, path, 'outputs', LIMITS.outputs, 'outputs');
   if (!entries) return [];
-  if (entries.length > LIMITS.outputs) {
-    ctx.problems.add(at(ctx, deref(ctx, node), path), `more than ${LIMITS.outputs} outputs`, 'a model this large is not supported');
-    return [];
-  }
   const out: OutputDraft[] = [];
   for (const e of entries) {
     const where = at(ctx, e.keyNode, e.path);

@@ -6,7 +6,7 @@ import type { FreeParameterSpec, ParameterSpec } from '../types.js';
 import { declare, type LoadState } from './load-state.js';
 import { LIMITS } from '../limits.js';
 import {
-  at, byKey, deref, describeNode, isNullish, keyPath, mapEntries, readBoolean, readChoice, readNumber, readString,
+  at, byKey, deref, describeNode, isNullish, keyPath, mapEntries, readBoolean, readChoice, readNumber, readString, sectionEntries,
   scalarOf, seqItems, type Entry, type YNode,
 } from './yaml-source.js';
 
@@ -24,12 +24,8 @@ export function splitValueAndUnit(text: string): { value: number; unit: string }
 }
 
 export function readParameters(st: LoadState, node: YNode, path = 'parameters'): ParameterSpec[] {
-  const entries = mapEntries(st.ctx, node, path, 'parameters');
+  const entries = sectionEntries(st.ctx, node, path, 'parameters', LIMITS.parameters, 'parameters');
   if (!entries) return [];
-  if (entries.length > LIMITS.parameters) {
-    st.ctx.problems.add(at(st.ctx, deref(st.ctx, node), path), `more than ${LIMITS.parameters} parameters`, 'a model this large is not supported');
-    return [];
-  }
   const out: ParameterSpec[] = [];
   for (const e of entries) {
     const ok = declare(st, e.key, 'parameter', e.keyNode, e.path);

@@ -4,17 +4,13 @@ import { declare, readExpression, type LoadState } from './load-state.js';
 import { LIMITS } from '../limits.js';
 import { suggestion } from '../../presentation/nearest-names.js';
 import { parseExpression } from '../expression-check.js';
-import { at, byKey, deref, isNullish, mapEntries, readString, type YNode } from './yaml-source.js';
+import { at, byKey, deref, isNullish, mapEntries, readString, sectionEntries, type YNode } from './yaml-source.js';
 
 export const STATE_KEYS = ['unit', 'initial'] as const;
 
 export function readStates(st: LoadState, node: YNode, path = 'states'): StateSpec[] {
-  const entries = mapEntries(st.ctx, node, path, 'states');
+  const entries = sectionEntries(st.ctx, node, path, 'states', LIMITS.states, 'states');
   if (!entries) return [];
-  if (entries.length > LIMITS.states) {
-    st.ctx.problems.add(at(st.ctx, deref(st.ctx, node), path), `more than ${LIMITS.states} states`, 'a model this large is not supported');
-    return [];
-  }
   const out: StateSpec[] = [];
   for (const e of entries) {
     const ok = declare(st, e.key, 'state', e.keyNode, e.path);

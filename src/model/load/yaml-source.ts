@@ -196,6 +196,20 @@ export function mapEntries(ctx: LoadContext, node: YNode, path: string, what: st
   return out;
 }
 
+/**
+ * The entries of a model section that may hold at most `limit` of them (LIMITS), or undefined after
+ * a problem: not a map, or more entries than a model of ours may declare.
+ */
+export function sectionEntries(ctx: LoadContext, node: YNode, path: string, what: string, limit: number, plural: string): Entry[] | undefined {
+  const entries = mapEntries(ctx, node, path, what);
+  if (!entries) return undefined;
+  if (entries.length > limit) {
+    ctx.problems.add(at(ctx, deref(ctx, node), path), `more than ${limit} ${plural}`, 'a model this large is not supported');
+    return undefined;
+  }
+  return entries;
+}
+
 export function byKey(entries: readonly Entry[]): Map<string, Entry> {
   return new Map(entries.map((e) => [e.key, e]));
 }
