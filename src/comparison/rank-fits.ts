@@ -79,11 +79,11 @@ export interface RankResult {
 }
 
 /** Rule of thumb of Burnham & Anderson (2002), section 2.6: Delta_i <= 2 means substantial support. */
-export const SUBSTANTIAL_SUPPORT_DELTA = 2;
+const SUBSTANTIAL_SUPPORT_DELTA = 2;
 /** Significance level of the likelihood-ratio tests. */
-export const LRT_ALPHA = 0.05;
+const LRT_ALPHA = 0.05;
 
-export const OBJECTIVE_TEXT =
+const OBJECTIVE_TEXT =
   '-2 log L: Gaussian likelihood of the fit residuals, with each model\'s maximum-likelihood noise level per output where the noise is estimated (given sigmas are used as given)';
 
 export function rankFits(candidates: readonly CandidateFit[], options: { nested?: boolean } = {}): RankResult {

@@ -66,7 +66,7 @@ function lineCounter(text: string): (cursor: number) => number {
 }
 
 /** The separator that occurs most often in the header line (ties: comma, then semicolon, then tab). */
-export function detectDelimiter(header: string): Delimiter {
+function detectDelimiter(header: string): Delimiter {
   const counts: [Delimiter, number][] = [',', ';', '\t'].map((d) => [d as Delimiter, header.split(d).length - 1]);
   let best = counts[0];
   for (const c of counts) if (c[1] > best[1]) best = c;

@@ -9,7 +9,7 @@
  */
 
 /** Centres `x` on the mean of its finite samples; missing samples become 0. Also counts them. */
-export function centreWithGaps(x: ArrayLike<number>): { d: Float64Array; present: number; sumSquares: number } {
+function centreWithGaps(x: ArrayLike<number>): { d: Float64Array; present: number; sumSquares: number } {
   let sum = 0;
   let present = 0;
   for (let i = 0; i < x.length; i++) {

@@ -6,5 +6,4 @@ export type { SeriesScore } from './scores.js';
 export { autocorrelation, crossCorrelation } from './correlation.js';
 export { ljungBox } from './ljung-box.js';
 export type { LjungBox } from './ljung-box.js';
-export { testLags, displayLags, MIN_SAMPLES_FOR_TESTS, MAX_DISPLAY_LAGS } from './lag-rule.js';
-export { sampleInterval } from './sample-interval.js';
+export { testLags } from './lag-rule.js';

@@ -12,7 +12,7 @@
 export const MIN_SAMPLES_FOR_TESTS = 10;
 
 /** The longest autocorrelation lag computed for display and for `correlatedUpTo`. */
-export const MAX_DISPLAY_LAGS = 250;
+const MAX_DISPLAY_LAGS = 250;
 
 /** Lags of the Ljung-Box test for `n` present samples (at least 1). */
 export function testLags(n: number): number {

@@ -24,7 +24,7 @@ import { meaningfulChanges, NULL_COMPONENT, scaledSvd, SINGULAR_THRESHOLD } from
 import type { JacobianInput } from './solver/types.js';
 
 /** |correlation| above this is flagged (common practice, no source). */
-export const CORRELATION_FLAG = 0.95;
+const CORRELATION_FLAG = 0.95;
 
 /** Two relative (or absolute) changes count as equal or opposite when their ratio is within 10 % of +-1. */
 const RATIO_MATCH = 0.1;

@@ -50,8 +50,8 @@ export interface MultistartOutcome<R extends StartResult> {
   bestCosts: number[];
 }
 
-export const SAME_COST_RELATIVE = 1e-6;
-export const SAME_THETA_RELATIVE = 1e-3;
+const SAME_COST_RELATIVE = 1e-6;
+const SAME_THETA_RELATIVE = 1e-3;
 
 /** The sampling interval of one entry (finite), in the optimiser's coordinates. */
 export function samplingInterval(e: MultistartEntry): [number, number] {

@@ -14,7 +14,7 @@ import { stringify } from 'csv-stringify/sync';
 export type CsvCell = string | number;
 
 /** A number as a CSV cell: shortest round-trip form, empty when NaN or infinite. */
-export function csvNumber(x: number): string {
+function csvNumber(x: number): string {
   return Number.isFinite(x) ? String(x) : '';
 }
 

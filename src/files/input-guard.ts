@@ -54,7 +54,7 @@ export function refuseOverwritingInputs(output: OutputFile, inputs: readonly Run
 }
 
 /** The real path of a file (links followed), or of its folder plus its name when it does not exist yet. */
-export function canonicalPath(file: string): string {
+function canonicalPath(file: string): string {
   try {
     return realpathSync(file);
   } catch {

@@ -98,7 +98,7 @@ export function writeResultsFolder(folder: string, files: Record<string, FolderE
  * folder is replaced as a whole (the caller has guarded it). On any error the temporary copy goes
  * and the old folder stays as it was.
  */
-export function writeFolderAtomic(folder: string, files: Record<string, FolderEntry>): void {
+function writeFolderAtomic(folder: string, files: Record<string, FolderEntry>): void {
   const target = resolve(folder);
   mkdirSync(dirname(target), { recursive: true });
   const tmp = tempName(target, 'tmp');

@@ -194,7 +194,7 @@ function checkTree(node: MathNode, depth: number, calls: Call[], cursor: Map<str
 // Helpers for layers that read checked trees.
 
 /** The children of a checked node, in source order. */
-export function childrenOf(node: MathNode): MathNode[] {
+function childrenOf(node: MathNode): MathNode[] {
   const n = node as MathNode & Record<string, unknown>;
   switch (node.type) {
     case 'ParenthesisNode':

@@ -6,7 +6,7 @@
 import { formatCorrelation, formatPValueClause } from './numbers.js';
 
 /** The short label of a whiteness test, for table cells. */
-export const WHITENESS_LABELS = {
+const WHITENESS_LABELS = {
   white: 'white',
   notWhite: 'not white',
   notJudged: 'not judged',

@@ -8,7 +8,7 @@ import type { Model, ParameterSpec } from '../model/types.js';
 import { formatNumber, indentedTable, withUnit } from '../presentation/index.js';
 
 /** True when not one symbol of the model declares a unit: then dimensional checks are skipped. */
-export function noSymbolCarriesUnit(model: Model): boolean {
+function noSymbolCarriesUnit(model: Model): boolean {
   const units = [
     ...model.states.map((s) => s.unit),
     ...model.inputs.map((s) => s.unit),
@@ -18,7 +18,7 @@ export function noSymbolCarriesUnit(model: Model): boolean {
   return units.every((u) => !u || !u.trim());
 }
 
-export function unitCheckLine(model: Model): string {
+function unitCheckLine(model: Model): string {
   if (model.units === 'off') return 'unit checks: off (units: off in the model file)';
   if (noSymbolCarriesUnit(model)) return 'unit checks skipped: no symbol carries a unit';
   return 'unit checks: passed (every equation, output and function argument agrees)';

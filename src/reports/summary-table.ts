@@ -19,7 +19,7 @@ function flags(p: ParameterResult): string {
   return f.join(', ');
 }
 
-export function renderParameterTable(fit: FitResult): string {
+function renderParameterTable(fit: FitResult): string {
   const rows = fit.parameters.map((p) => [
     p.name,
     formatNumber(p.estimate, ESTIMATE_DIGITS),
@@ -31,7 +31,7 @@ export function renderParameterTable(fit: FitResult): string {
   return textTable(['parameter', 'estimate', 'unit', 'std. error', '95 % interval', 'flags'], rows);
 }
 
-export function renderOutputTable(fit: FitResult): string {
+function renderOutputTable(fit: FitResult): string {
   const rows = fit.outputs.map((o) => [
     o.experiment,
     o.role,

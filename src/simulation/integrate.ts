@@ -29,7 +29,7 @@ import { tolerances, type Tolerances } from './tolerances.js';
 import type { SimulationInputs, SimulationOptions, SimulationOutcome } from './types.js';
 
 /** Default step limit per segment: generous for logs (several steps per sample) yet finite. */
-export function defaultMaxSteps(samplesInSegment: number): number {
+function defaultMaxSteps(samplesInSegment: number): number {
   return Math.max(100_000, 8 * samplesInSegment);
 }
 

@@ -8,7 +8,7 @@ import { simulationFailed } from './outcome.js';
 import type { StepLimitDiagnosis } from './stiffness.js';
 import type { SimulationOutcome } from './types.js';
 
-export function formatParameters(compiled: CompiledModel, p: Float64Array): string {
+function formatParameters(compiled: CompiledModel, p: Float64Array): string {
   const names = [...compiled.paramSlot.entries()].sort((a, b) => a[1] - b[1]);
   const parts = names.map(([name, slot]) => `${name}=${formatSignificant(p[slot], 6)}`);
   return parts.length > 12 ? parts.slice(0, 12).join(', ') + `, ... (${parts.length} in all)` : parts.join(', ');

@@ -42,7 +42,7 @@ export interface IntegrationRun {
 }
 
 /** Delay of each input in model time units: a number, or the value of the named parameter. */
-export function inputDelays(compiled: CompiledModel, p: Float64Array): number[] {
+function inputDelays(compiled: CompiledModel, p: Float64Array): number[] {
   return compiled.model.inputs.map((inp) => {
     if (inp.delay === undefined) return 0;
     if (typeof inp.delay === 'number') return inp.delay;

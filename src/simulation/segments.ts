@@ -6,7 +6,7 @@ import type { InputTrack } from './input-track.js';
 import type { SimulationInputs } from './types.js';
 
 /** The union of increasing arrays, increasing, without duplicates. */
-export function mergeSorted(lists: readonly Float64Array[]): Float64Array {
+function mergeSorted(lists: readonly Float64Array[]): Float64Array {
   let out: Float64Array = new Float64Array(0);
   for (const b of lists) {
     const a = out;

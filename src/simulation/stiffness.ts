@@ -36,7 +36,7 @@ export interface StepRun {
 const fmt = (v: number): string => formatSignificant(v, 3);
 
 /** Time constants 1/|lambda| of df/dx at (t, x, u), largest first; [] when not computable. */
-export function timeConstants(compiled: CompiledModel, t: number, x: Float64Array, u: Float64Array, p: Float64Array): number[] {
+function timeConstants(compiled: CompiledModel, t: number, x: Float64Array, u: Float64Array, p: Float64Array): number[] {
   const n = compiled.nStates;
   const xp = Float64Array.from(x);
   const fp = new Float64Array(n);

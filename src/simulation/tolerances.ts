@@ -8,8 +8,8 @@
  * five correct digits even near zero crossings). A sensitivity dx_i/dp_k is of the size x_i / p_k,
  * so its absolute tolerance is atol_i / |p_k| (atol_i when p_k = 0).
  */
-export const DEFAULT_RTOL = 1e-8;
-export const ATOL_FLOOR = 1e-3;
+const DEFAULT_RTOL = 1e-8;
+const ATOL_FLOOR = 1e-3;
 
 export interface Tolerances {
   rtol: number;

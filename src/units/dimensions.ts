@@ -36,7 +36,7 @@ const NDIMS = unitMath.Unit.BASE_DIMENSIONS.length;
 const SYMBOLS = ['kg', 'm', 's', 'A', 'K', 'cd', 'mol', 'rad', 'bit'];
 const TOL = 1e-9;
 
-export const DIMENSIONLESS: Quantity = Object.freeze({ dims: new Array<number>(NDIMS).fill(0), scale: 1, text: '1' }) as Quantity;
+const DIMENSIONLESS: Quantity = Object.freeze({ dims: new Array<number>(NDIMS).fill(0), scale: 1, text: '1' }) as Quantity;
 
 /** The quantity of a unit string ('' is dimensionless), or undefined for an unknown unit. */
 export function quantityOf(unitText: string): Quantity | undefined {
@@ -267,7 +267,7 @@ function sameUnit(a: Quantity, b: Quantity, an: MathNode, bn: MathNode, what: st
 }
 
 /** The value of an expression made of numbers only (for exponents), or undefined. */
-export function constantValue(node: MathNode): number | undefined {
+function constantValue(node: MathNode): number | undefined {
   const n = node as N;
   let v: number | undefined;
   switch (node.type) {

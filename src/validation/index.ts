@@ -2,7 +2,3 @@
 export { validateModel } from './validate-model.js';
 export type { ValidateOptions, ValidateOutcome } from './validate-model.js';
 export type { ValidationData, ValidationOutputScore, ValidationResult } from './validation-result.js';
-export { validationText } from './validation-report.js';
-export { writeValidationFolder } from './validation-folder.js';
-export { renderValidationReport } from './validation-html.js';
-export { withNewLog } from './new-log-experiment.js';

@@ -1,7 +1,6 @@
 /** The generic bounded least-squares solver (see levenberg-marquardt.ts). */
 export { solveLeastSquares } from './levenberg-marquardt.js';
 export { SOLVER_DEFAULTS } from './defaults.js';
-export { RowMajorMatrix } from './row-major.js';
 export { STOP_REASONS, stopMessage, type StopDetails, type StopReasonEntry } from './stop-reasons.js';
 export type {
   EvaluationAnswer,

@@ -20,7 +20,7 @@ export interface SolverSettings {
   initialRadiusFactor: number;
 }
 
-export function settingsOf(options: SolverOptions): SolverSettings {
+function settingsOf(options: SolverOptions): SolverSettings {
   return {
     maxIterations: options.maxIterations ?? SOLVER_DEFAULTS.maxIterations,
     costTolerance: options.costTolerance ?? SOLVER_DEFAULTS.costTolerance,

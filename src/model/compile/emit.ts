@@ -20,7 +20,7 @@ export interface Assignment {
 export type SymbolReader = (node: Extract<IrNode, { op: 'sym' }>) => string;
 
 /** Largest generated function body accepted (characters): far above any real model. */
-export const MAX_BODY_CHARS = 16_000_000;
+const MAX_BODY_CHARS = 16_000_000;
 
 /** Prints a number so that it reads back to the same double; negatives in parentheses. */
 export function numberLiteral(v: number): string {

@@ -50,10 +50,6 @@ const COMPARE: Record<ComparisonOp, (a: number, b: number) => boolean> = {
   ne: (a, b) => a !== b,
 };
 
-export function isComparison(op: string): op is ComparisonOp {
-  return op in COMPARE;
-}
-
 /**
  * A pool of unique nodes. Node ids grow with construction, and a node is always built after its
  * arguments, so increasing id order is a valid evaluation order.

@@ -12,7 +12,7 @@ import {
   at, byKey, deref, isNullish, keyPath, mapEntries, readChoice, readNumber, readString, seqItems, type Entry, type YNode,
 } from './yaml-source.js';
 
-export const EXPERIMENT_KEYS = ['name', 'file', 'time', 'time_unit', 'window', 'start', 'role', 'set', 'initial', 'columns'] as const;
+const EXPERIMENT_KEYS = ['name', 'file', 'time', 'time_unit', 'window', 'start', 'role', 'set', 'initial', 'columns'] as const;
 
 /** Experiment-level settings that refer to declared names, checked once all names are known. */
 export interface ExperimentDraft {

@@ -22,7 +22,7 @@ import { at, byKey, isNullish, mapEntries, parseYaml, readSourceFile } from './y
 
 export { parseOverrides } from './overrides.js';
 
-export const TOP_LEVEL_KEYS = [
+const TOP_LEVEL_KEYS = [
   'format', 'name', 'description', 'time_unit', 'states', 'inputs', 'parameters', 'define', 'equations',
   'outputs', 'experiments', 'units',
 ] as const;

@@ -6,7 +6,7 @@ import {
   at, byKey, deref, describeNode, isNullish, mapEntries, readChoice, readString, scalarOf, sectionEntries, type YNode,
 } from './yaml-source.js';
 
-export const INPUT_KEYS = ['unit', 'column', 'column_unit', 'interpolate', 'delay'] as const;
+const INPUT_KEYS = ['unit', 'column', 'column_unit', 'interpolate', 'delay'] as const;
 
 export function readInputs(st: LoadState, node: YNode, path = 'inputs'): InputSpec[] {
   const { ctx } = st;

@@ -6,10 +6,8 @@ import { NAME_PATTERN, PARSER_WORDS } from '../expression-scan.js';
 import { isFunctionName } from '../functions/registry.js';
 import { LIMITS } from '../limits.js';
 
-export { NAME_PATTERN, PARSER_WORDS };
-
 /** Names with a meaning in expressions: time and the two constants (model-format.md). */
-export const RESERVED_SYMBOLS: ReadonlySet<string> = new Set(['t', 'pi', 'e']);
+const RESERVED_SYMBOLS: ReadonlySet<string> = new Set(['t', 'pi', 'e']);
 
 /**
  * Why `name` cannot be declared, or undefined when it can. Names that are properties of every
@@ -30,7 +28,7 @@ export function nameProblem(name: string): string | undefined {
  * Experiment and model names appear in messages, in `name@experiment` and in output file and
  * folder names, so they must be safe there: letters, digits, `_`, `-`, `.`, no `..`, no slashes.
  */
-export const LABEL_PATTERN = /^[A-Za-z0-9][A-Za-z0-9_.-]*$/;
+const LABEL_PATTERN = /^[A-Za-z0-9][A-Za-z0-9_.-]*$/;
 
 export function labelProblem(label: string): string | undefined {
   if (label.length > LIMITS.nameChars) return `"${label.slice(0, 20)}..." is longer than ${LIMITS.nameChars} characters`;

@@ -1,13 +1,13 @@
 /** The `outputs` section: what was measured, as expressions of the model's symbols. */
 import type { Expr, OutputSpec } from '../types.js';
 import { readExpression, type LoadState } from './load-state.js';
-import { NAME_PATTERN } from './names.js';
+import { NAME_PATTERN } from '../expression-scan.js';
 import type { SourceLocation } from '../../errors.js';
 import { LIMITS } from '../limits.js';
 import { parseExpression } from '../expression-check.js';
 import { at, byKey, deref, isNullish, mapEntries, readNumber, readString, sectionEntries, type YNode } from './yaml-source.js';
 
-export const OUTPUT_KEYS = ['expr', 'unit', 'column', 'column_unit', 'sigma'] as const;
+const OUTPUT_KEYS = ['expr', 'unit', 'column', 'column_unit', 'sigma'] as const;
 
 /** An output read from the file, with whether its expr and unit were written (defaults come later). */
 export interface OutputDraft {

@@ -6,7 +6,7 @@
  */
 import { ProblemList, type SourceLocation } from '../../errors.js';
 import type { ExperimentSpec, ParameterSpec } from '../types.js';
-import { NAME_PATTERN } from './names.js';
+import { NAME_PATTERN } from '../expression-scan.js';
 import { suggestion } from '../../presentation/nearest-names.js';
 
 const DECIMAL = /^[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?$/;

@@ -10,12 +10,12 @@ import {
   scalarOf, seqItems, type Entry, type YNode,
 } from './yaml-source.js';
 
-export const PARAMETER_KEYS = ['fixed', 'free', 'start', 'unit', 'per_experiment', 'scale'] as const;
+const PARAMETER_KEYS = ['fixed', 'free', 'start', 'unit', 'per_experiment', 'scale'] as const;
 
 /** A number followed by an optional unit: `2.5`, `2.5 kg`, `-1e-3 N*m/A`. */
 const VALUE_WITH_UNIT = /^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$/;
 
-export function splitValueAndUnit(text: string): { value: number; unit: string } | undefined {
+function splitValueAndUnit(text: string): { value: number; unit: string } | undefined {
   const m = VALUE_WITH_UNIT.exec(text);
   if (!m) return undefined;
   const value = Number(m[1]);

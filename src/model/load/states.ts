@@ -6,7 +6,7 @@ import { suggestion } from '../../presentation/nearest-names.js';
 import { parseExpression } from '../expression-check.js';
 import { at, byKey, deref, isNullish, mapEntries, readString, sectionEntries, type YNode } from './yaml-source.js';
 
-export const STATE_KEYS = ['unit', 'initial'] as const;
+const STATE_KEYS = ['unit', 'initial'] as const;
 
 export function readStates(st: LoadState, node: YNode, path = 'states'): StateSpec[] {
   const entries = sectionEntries(st.ctx, node, path, 'states', LIMITS.states, 'states');

@@ -1,5 +1,5 @@
 /** Escapes text for HTML element content and quoted attribute values. Every user string passes here. */
-export function escapeHtml(text: unknown): string {
+function escapeHtml(text: unknown): string {
   return String(text)
     .replace(/&/g, '&amp;')
     .replace(/</g, '&lt;')

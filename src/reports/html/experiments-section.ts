@@ -37,7 +37,7 @@ ${figures.map((svg) => html`<figure>${raw(svg)}</figure>`)}
 }
 
 /** Groups outputs by experiment, keeping the order of fit.experiments (then first appearance). */
-export function groupByExperiment(fit: FitResult, shown: ShownOutput[]): { name: string; role: 'fit' | 'validation'; outputs: ShownOutput[] }[] {
+function groupByExperiment(fit: FitResult, shown: ShownOutput[]): { name: string; role: 'fit' | 'validation'; outputs: ShownOutput[] }[] {
   const order = (fit.experiments ?? []).map((e) => e.name);
   const groups = new Map<string, ShownOutput[]>();
   for (const s of shown) {

@@ -6,7 +6,7 @@ import { formatCriterion, formatCriterionFixed, formatEstimate, formatHtmlNumber
 /** Pairwise |correlation| above this is flagged (shared spec numerics.md, Identifiability). */
 const HIGH_CORRELATION = 0.95;
 
-export function parameterFlags(p: ParameterResult, fit: FitResult): string[] {
+function parameterFlags(p: ParameterResult, fit: FitResult): string[] {
   const flags: string[] = [];
   if (p.atBound === 'lower') flags.push('at lower bound: interval not reliable');
   if (p.atBound === 'upper') flags.push('at upper bound: interval not reliable');

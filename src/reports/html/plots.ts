@@ -7,7 +7,7 @@ import type { TopLevelSpec } from 'vega-lite';
 import { formatCorrelation, HTML_MARKS } from '../../presentation/index.js';
 import { decimateMinMax } from './decimate.js';
 
-export const COLOURS = {
+const COLOURS = {
   measured: '#9aa3b2',
   simulated: '#0b6e4f',
   residual: '#3a5a98',

@@ -16,7 +16,7 @@ import type { FitResult } from '../../estimation/fit/fit-result.js';
  * (the file is parsed whole; V8 strings stop near 512 MiB and the parsed rows take several times the
  * file's size). 256 MiB is some three million rows of a few outputs.
  */
-export const MAX_RESIDUALS_BYTES = 256 * 2 ** 20;
+const MAX_RESIDUALS_BYTES = 256 * 2 ** 20;
 
 export interface ResultsFolder {
   fit: FitResult;
@@ -32,7 +32,7 @@ export function readResultsFolder(dir: string): ResultsFolder {
   return { fit, series };
 }
 
-export function readFitJson(file: string): FitResult {
+function readFitJson(file: string): FitResult {
   if (!existsSync(file)) {
     throw new UserError({ where: { file }, what: 'fit.json is missing: this is not a results folder of rigcal fit', fix: 'run `rigcal fit MODEL -o DIR` first, then `rigcal report DIR`' });
   }
@@ -63,7 +63,7 @@ export function readFitJson(file: string): FitResult {
 
 const SUFFIXES = ['_measured', '_simulated', '_residual'] as const;
 
-export function readResidualsCsv(file: string, fit: FitResult): ResidualSeries[] {
+function readResidualsCsv(file: string, fit: FitResult): ResidualSeries[] {
   if (!existsSync(file)) {
     throw new UserError({ where: { file }, what: 'residuals.csv is missing from the results folder', fix: 'run `rigcal fit` again to rewrite the results folder' });
   }

@@ -7,7 +7,7 @@ import * as vega from 'vega';
 import { compile, type TopLevelSpec } from 'vega-lite';
 
 /** Shared look of every plot: our own palette and type sizes, print-friendly (white ground). */
-export const PLOT_CONFIG = {
+const PLOT_CONFIG = {
   font: 'Helvetica, Arial, sans-serif',
   background: 'white',
   view: { stroke: '#c9ccd1' },
