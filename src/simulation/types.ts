@@ -35,9 +35,9 @@ export interface SimulationOptions {
   /** Step limit per segment before the model is declared stiff / failing. */
   maxSteps?: number;
   /**
-   * Whether the sensitivities take part in the step-size control (default true). False: partial
-   * error control, the steps follow the states only (see tolerances.ts for the measurement behind
-   * the default). For measurements and tests.
+   * Whether the sensitivities take part in the step-size control (default true: full error
+   * control, so the Jacobian is resolved to the same tolerance as the outputs). False: partial
+   * error control, the steps follow the states only. For measurements and tests.
    */
   sensitivityErrorControl?: boolean;
 }
