@@ -7,6 +7,7 @@
 import { renameSync, rmSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import { randomBytes } from 'node:crypto';
+import { repairInterruptedWrite } from './interrupted-writes.js';
 
 /** A hidden sibling of `target` (`.name.tag-pid-random`), unique to this write. */
 export function tempName(target: string, tag: string): string {
@@ -16,6 +17,7 @@ export function tempName(target: string, tag: string): string {
 /** Write one file through a temporary sibling and a rename. */
 export function writeFileAtomic(file: string, content: string | Uint8Array): void {
   const target = resolve(file);
+  repairInterruptedWrite(target);
   const tmp = tempName(target, 'tmp');
   try {
     writeFileSync(tmp, content, { flag: 'wx' });

@@ -7,6 +7,8 @@ import { existsSync, mkdirSync, readFileSync, readdirSync, renameSync, rmSync, s
 import { dirname, join, resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { tempName } from './atomic-file.js';
+import { repairInterruptedWrite } from './interrupted-writes.js';
+import { assertCanWrite, isFileError, writeFailure } from './writable.js';
 
 /** What makes a folder a results folder of ours: its marker file and the files it may hold. */
 export interface ResultsFolderKind {
@@ -46,10 +48,17 @@ export function defaultResultsFolder(cwd: string, modelName: string, kind: Resul
   return resolve(cwd, `${modelName}${kind.suffix}`);
 }
 
-/** The folder to write: `-o` (relative to `cwd`) or the default; refused now if it is not ours. */
+const WRITE_FIX = 'choose a writable folder with -o, or free space or fix the permissions there';
+
+/**
+ * The folder to write: `-o` (relative to `cwd`) or the default. Before any work: what an interrupted
+ * earlier write left there is repaired, and the folder is refused if it is not ours or cannot be written.
+ */
 export function chooseResultsFolder(cwd: string, output: string | undefined, modelName: string, kind: ResultsFolderKind): string {
   const folder = output ? resolve(cwd, output) : defaultResultsFolder(cwd, modelName, kind);
+  repairInterruptedWrite(folder);
   assertReplaceable(folder, kind);
+  assertCanWrite(folder, `${kind.label} folder`, WRITE_FIX);
   return folder;
 }
 
@@ -85,11 +94,20 @@ function markedOurs(folder: string, entries: readonly string[], kind: ResultsFol
 /** A file of a folder: its content, or a function producing it (called while the folder is built). */
 export type FolderEntry = string | Uint8Array | (() => string | Uint8Array);
 
-/** Guard, then write the whole folder at once; returns its absolute path. */
+/**
+ * Repair and guard, then write the whole folder at once; returns its absolute path. A fault of the
+ * machine (full disk, read-only, no permission) is a user error that names the folder and the reason.
+ */
 export function writeResultsFolder(folder: string, files: Record<string, FolderEntry>, kind: ResultsFolderKind): string {
   const target = resolve(folder);
+  repairInterruptedWrite(target);
   assertReplaceable(target, kind);
-  writeFolderAtomic(target, files);
+  try {
+    writeFolderAtomic(target, files);
+  } catch (err) {
+    if (isFileError(err)) throw writeFailure(target, `${kind.label} folder`, err, WRITE_FIX);
+    throw err;
+  }
   return target;
 }
 

@@ -7,6 +7,8 @@ import { resolve } from 'node:path';
 import type { FitOptions } from '../estimation/fit/fit-options.js';
 import type { CompletedFit } from '../estimation/fit/fit-result.js';
 import { fitModel } from '../estimation/fit/fit-model.js';
+import { UserError } from '../errors.js';
+import { formatSignificant } from '../presentation/numbers.js';
 import { FIT_FOLDER, chooseResultsFolder } from '../files/results-folder.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
@@ -43,6 +45,28 @@ export async function runFit(options: FitRunOptions): Promise<FitRunResult> {
   const folder = chooseResultsFolder(cwd, options.output, model.name, FIT_FOLDER);
   const outcome = fitModel(model, { starts: options.starts, seed: options.seed, maxIterations: options.maxIterations, onProgress: options.onProgress });
   const renderHtml = options.renderHtml === false ? undefined : (options.renderHtml ?? reportRenderer);
-  const written = await writeResults(folder, outcome, { outputs: model.outputs.map((o) => o.name), renderHtml });
-  return { model, outcome, folder: written };
+  try {
+    const written = await writeResults(folder, outcome, { outputs: model.outputs.map((o) => o.name), renderHtml });
+    return { model, outcome, folder: written };
+  } catch (err) {
+    if (err instanceof UserError) throw finishedButNotWritten(err, outcome);
+    throw err;
+  }
+}
+
+/**
+ * The fit ran (seconds or minutes of work) but its folder could not be written, e.g. the disk filled
+ * meanwhile: the message says so, and carries the estimates so that they are not lost with it.
+ */
+function finishedButNotWritten(err: UserError, outcome: CompletedFit): UserError {
+  const r = outcome.result;
+  const estimates = r.parameters
+    .filter((p) => p.status === 'free')
+    .map((p) => `${p.name} = ${formatSignificant(p.estimate, 6)}${p.unit && p.unit !== '1' ? ` ${p.unit}` : ''}`)
+    .join(', ');
+  return new UserError(err.problems.map((p) => ({
+    ...p,
+    what: `the fit finished (${r.status}, ${r.iterations} iterations) but ${p.what}`,
+    fix: `${p.fix ?? 'choose another folder with -o'}; the estimates were ${estimates}`,
+  })));
 }

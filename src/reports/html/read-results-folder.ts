@@ -3,6 +3,7 @@
  * residual series (columns experiment, role, time, then per output <out>_measured, <out>_simulated,
  * <out>_residual; empty cell = missing). The residual column is not read: it is measured - simulated.
  */
+import { repairInterruptedWrite } from '../../files/interrupted-writes.js';
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import Papa from 'papaparse';
@@ -24,6 +25,8 @@ export interface ResultsFolder {
 }
 
 export function readResultsFolder(dir: string): ResultsFolder {
+  // A write of this folder that was interrupted may have left it under a hidden name: put it back.
+  repairInterruptedWrite(dir);
   if (!existsSync(dir) || !statSync(dir).isDirectory()) {
     throw new UserError({ where: { file: dir }, what: 'no such results folder', fix: 'give the folder that `rigcal fit` wrote (default ./<model name>-fit/)' });
   }
