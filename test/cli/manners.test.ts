@@ -172,6 +172,14 @@ describe('--json on every command', () => {
     }
   });
 
+  it('control characters of the input reach the terminal escaped in a JSON error, C1 ones included', async () => {
+    // ESC [ and CSI (U+009B) start terminal commands (ECMA-48); JSON.stringify escapes only U+0000-U+001F (ECMA-262).
+    const run = await rigcal(['check', 'bad\u001b[31m\u009b2J.yaml', '--json'], dir);
+    expect(run.stdout).not.toMatch(/[\u0000-\u0009\u000b-\u001f\u007f-\u009f]/);
+    const error = expectJsonError(run, 2, 'input');
+    expect(error.problems[0].where.file.endsWith('bad\u001b[31m\u009b2J.yaml')).toBe(true);
+  });
+
   it('a command-line mistake with --json is a JSON error too (exit 2)', async () => {
     const run = await rigcal(['check', model, '--no-such-option', '--json'], dir);
     const error = expectJsonError(run, 2, 'input');
