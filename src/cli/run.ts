@@ -1,16 +1,18 @@
 /**
  * The CLI as a function: parses argv, runs one command, turns library errors into messages and exit
- * codes (UserError -> 2, RunFailure -> 1). No stack trace for a user error.
+ * codes (UserError -> 2, RunFailure -> 1; error-report.ts). No stack trace for a user error.
  */
-import { Command, CommanderError } from 'commander';
-import { RunFailure, UserError, formatProblem } from '../errors.js';
-import { escapeControls } from '../util/printable.js';
+import { Command } from 'commander';
 import { VERSION } from '../version.js';
+import { reportError } from './error-report.js';
 import type { CliIO, CommandAction, CommandContext } from './io.js';
 import { registerCommands } from './commands/index.js';
 
 export async function runCli(argv: string[], io: CliIO): Promise<number> {
   let exitCode = 0;
+  const json = asksForJson(argv);
+  // With --json, a usage mistake is reported as JSON on standard output (error-report.ts), not as text.
+  const writeErr = (s: string) => (json ? undefined : io.stderr(s));
   const program = new Command();
   program
     .name('rigcal')
@@ -19,45 +21,52 @@ export async function runCli(argv: string[], io: CliIO): Promise<number> {
     .exitOverride()
     .configureOutput({
       writeOut: (s) => io.stdout(s),
-      writeErr: (s) => io.stderr(s),
+      writeErr,
     })
     .showHelpAfterError('(run with --help for usage and an example)');
 
+  let quiet = false;
   const ctx: CommandContext = {
-    io,
+    io: silencedWhen(io, () => quiet),
     action(fn: CommandAction) {
       return async (...args: any[]) => {
+        // Commander passes the command last; every command has --quiet (options.ts, mannerOptions).
+        quiet = Boolean((args[args.length - 1] as Command).opts().quiet);
         exitCode = await fn(...args);
       };
     },
   };
   registerCommands(program, ctx);
-  for (const sub of program.commands) sub.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
+  for (const sub of program.commands) sub.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr });
 
   try {
     await program.parseAsync(argv, { from: 'user' });
     return exitCode;
   } catch (err) {
-    return reportError(err, io);
+    return reportError(err, io, json);
   }
 }
 
-function reportError(err: unknown, io: CliIO): number {
-  if (err instanceof CommanderError) {
-    // --help and --version end here with exit code 0; usage mistakes are input errors.
-    if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') return 0;
-    return 2;
-  }
-  if (err instanceof UserError) {
-    const n = err.problems.length;
-    io.stderr(`rigcal: ${n === 1 ? 'error' : `${n} errors`}:\n${escapeControls(err.problems.map((p) => formatProblem(p)).join('\n'))}\n`);
-    return 2;
-  }
-  if (err instanceof RunFailure) {
-    io.stderr(`rigcal: failed: ${escapeControls(err.message)}\n`);
-    return 1;
-  }
-  // A bug of ours, not the user's: show it in full so that it can be reported.
-  io.stderr(`rigcal: internal error (please report it with the model file): ${err instanceof Error ? err.stack : String(err)}\n`);
-  return 70;
+/**
+ * Whether --json was given, read before commander parses: an error while parsing (an unknown option)
+ * must already know its form. Words after `--` are operands, not options.
+ */
+function asksForJson(argv: string[]): boolean {
+  const end = argv.indexOf('--');
+  return (end < 0 ? argv : argv.slice(0, end)).includes('--json');
+}
+
+/**
+ * The commands' view of `io`: with --quiet, nothing reaches standard error (no notes, no progress),
+ * so that a command prints its result alone. Error messages bypass it (runCli reports them on `io`).
+ */
+function silencedWhen(io: CliIO, quiet: () => boolean): CliIO {
+  return {
+    stdout: (s) => io.stdout(s),
+    stderr: (s) => (quiet() ? undefined : io.stderr(s)),
+    get stderrIsTTY() {
+      return io.stderrIsTTY && !quiet();
+    },
+    cwd: io.cwd,
+  };
 }

@@ -1,21 +1,39 @@
-/** The fit quality table that `rigcal simulate` prints where an experiment has data. */
+/** The fit quality that `rigcal simulate` prints where an experiment has data (a table, or rows for --json). */
 import { scoreSeries } from '../diagnostics/scores.js';
 import type { Model } from '../model/types.js';
 import { formatNumber, indentedTable as plainTable, withUnit } from '../presentation/index.js';
 import type { SimulatedExperiment } from './simulation-csv.js';
 
-/** Fit quality per experiment and measured output: samples, missing, RMSE (with unit), R^2. */
-export function renderQuality(model: Model, runs: readonly SimulatedExperiment[]): string {
-  const rows: string[][] = [];
+/** One experiment's measured output against the simulation: RMSE in the output's unit. */
+export interface QualityRow {
+  experiment: string;
+  role: string;
+  output: string;
+  unit: string;
+  samples: number;
+  missing: number;
+  rmse: number;
+  r2: number;
+}
+
+/** Fit quality per experiment and measured output, as plain data (full precision). */
+export function qualityRows(model: Model, runs: readonly SimulatedExperiment[]): QualityRow[] {
+  const rows: QualityRow[] = [];
   for (const { result, data } of runs) {
     if (!data) continue;
     model.outputs.forEach((o, j) => {
       const measured = data.outputs[j];
       if (!measured) return;
       const s = scoreSeries(measured, result.outputs[j]);
-      rows.push([result.experiment, data.experiment.role, o.name, String(s.samples), String(data.missing[j]), withUnit(s.rmse, o.unit), formatNumber(s.r2, 5)]);
+      rows.push({ experiment: result.experiment, role: data.experiment.role, output: o.name, unit: o.unit, samples: s.samples, missing: data.missing[j], rmse: s.rmse, r2: s.r2 });
     });
   }
+  return rows;
+}
+
+/** Fit quality per experiment and measured output: samples, missing, RMSE (with unit), R^2. */
+export function renderQuality(model: Model, runs: readonly SimulatedExperiment[]): string {
+  const rows = qualityRows(model, runs).map((r) => [r.experiment, r.role, r.output, String(r.samples), String(r.missing), withUnit(r.rmse, r.unit), formatNumber(r.r2, 5)]);
   if (!rows.length) return '';
   return `fit quality (measured - simulated)\n${plainTable(['experiment', 'role', 'output', 'samples', 'missing', 'RMSE', 'R^2'], rows)}\n`;
 }

@@ -25,8 +25,11 @@ export interface FreezeOptions {
   /** Model file and estimates file (paths as the user gave them; relative to `cwd`). */
   modelFile: string;
   estimatesFile: string;
-  /** Output file. */
-  output: string;
+  /**
+   * Output file. Omitted by prepareFreeze's callers that print the text instead (`-o -`): relative
+   * data paths are then rewritten for `cwd`, and no file is checked.
+   */
+  output?: string;
   format?: FreezeFormat;
   /** Freeze even when the estimates were made for a model file with another SHA-256. */
   force?: boolean;
@@ -38,7 +41,8 @@ export interface FreezeOptions {
 }
 
 export interface FreezeOutcome {
-  output: string;
+  /** Absolute path of the output (absent when the text was only prepared, for standard output). */
+  output?: string;
   format: FreezeFormat;
   /** What the YAML rewrite did (yaml format only). */
   summary?: FreezeSummary;
@@ -55,11 +59,11 @@ export function prepareFreeze(options: FreezeOptions): { text: string; outcome: 
   const format = options.format ?? 'yaml';
   const modelPath = path.resolve(cwd, options.modelFile);
   const estimatesPath = path.resolve(cwd, options.estimatesFile);
-  const output = path.resolve(cwd, options.output);
+  const output = options.output === undefined ? undefined : path.resolve(cwd, options.output);
   const model = loadModel(modelPath);
   const estimates = readEstimates(estimatesPath);
   const estimatesBytes = readFileSync(estimatesPath);
-  checkOutputPath(output, options, model, estimatesPath);
+  if (output) checkOutputPath(output, options.output!, options.overwrite, model, estimatesPath);
 
   const warnings: string[] = [];
   const mismatch = checkModelVersion(estimates, model, { estimatesLabel: options.estimatesFile, modelLabel: options.modelFile, force: options.force });
@@ -77,7 +81,7 @@ export function prepareFreeze(options: FreezeOptions): { text: string; outcome: 
 
   const date = options.date ?? new Date().toISOString();
   const { text, summary } = freezeModelText(readFileSync(modelPath, 'utf8'), model, estimates, {
-    outputDir: path.dirname(output),
+    outputDir: output ? path.dirname(output) : cwd,
     estimatesLabel: options.estimatesFile,
     estimatesSha256: sha256Hex(estimatesBytes),
     date,
@@ -90,18 +94,19 @@ export function prepareFreeze(options: FreezeOptions): { text: string; outcome: 
 }
 
 /** `rigcal freeze` as a library verb: prepare, then write the output atomically. */
-export function runFreeze(options: FreezeOptions): FreezeOutcome {
+export function runFreeze(options: FreezeOptions & { output: string }): FreezeOutcome & { output: string } {
   const { text, outcome } = prepareFreeze(options);
-  mkdirSync(path.dirname(outcome.output), { recursive: true });
-  writeFileAtomic(outcome.output, text);
-  return outcome;
+  const output = outcome.output!; // given, so resolved
+  mkdirSync(path.dirname(output), { recursive: true });
+  writeFileAtomic(output, text);
+  return { ...outcome, output };
 }
 
 /** The output must not clobber any input, nor an existing file unless asked. */
-function checkOutputPath(output: string, options: FreezeOptions, model: Model, estimatesPath: string): void {
-  const problem = outputFileProblem({ file: output, where: { file: options.output }, example: 'calibrated.yaml' }, inputsOfRun(model, estimatesPath));
+function checkOutputPath(output: string, asGiven: string, overwrite: boolean | undefined, model: Model, estimatesPath: string): void {
+  const problem = outputFileProblem({ file: output, where: { file: asGiven }, example: 'calibrated.yaml' }, inputsOfRun(model, estimatesPath));
   if (problem) throw new UserError(problem);
-  if (existsSync(output) && !options.overwrite) {
-    throw new UserError({ where: { file: options.output }, what: 'exists already', fix: 'choose another output file, or add --overwrite to replace it' });
+  if (existsSync(output) && !overwrite) {
+    throw new UserError({ where: { file: asGiven }, what: 'exists already', fix: 'choose another output file, or add --overwrite to replace it' });
   }
 }

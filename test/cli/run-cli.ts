@@ -10,13 +10,14 @@ export interface CliRun {
   stderr: string;
 }
 
-export async function rigcal(args: string[], cwd = process.cwd()): Promise<CliRun> {
+/** `stderrIsTTY`: run as if standard error were a terminal (progress is shown only then). */
+export async function rigcal(args: string[], cwd = process.cwd(), stderrIsTTY = false): Promise<CliRun> {
   let stdout = '';
   let stderr = '';
   const code = await runCli(args, {
     stdout: (s) => void (stdout += s),
     stderr: (s) => void (stderr += s),
-    stderrIsTTY: false,
+    stderrIsTTY,
     cwd,
   });
   return { code, stdout, stderr };

@@ -5,7 +5,7 @@
  * --json) and nothing else.
  */
 import type { Command } from 'commander';
-import { integerOption } from '../options.js';
+import { integerOption, mannerOptions } from '../options.js';
 import type { FitProgress } from '../../estimation/fit/fit-options.js';
 import { formatNumber } from '../../presentation/numbers.js';
 import type { CommandContext } from '../io.js';
@@ -25,7 +25,7 @@ function collect(value: string, previous: string[]): string[] {
 }
 
 export function register(program: Command, ctx: CommandContext): void {
-  program
+  const command = program
     .command('fit')
     .summary('estimate the free parameters from the fit experiments and write a results folder')
     .description(
@@ -38,9 +38,8 @@ export function register(program: Command, ctx: CommandContext): void {
     .option('--starts <n>', 'number of starts spread over the bounds; the best is kept')
     .option('--seed <s>', 'seed of the spread of starts (reproducible)')
     .option('--max-iterations <n>', 'limit on solver iterations per fit')
-    .option('--json', 'print fit.json to standard output instead of the summary')
-    .option('--quiet', 'no progress on standard error')
-    .option('--set <name=value>', 'override a parameter value (its unit); name@experiment=value for one experiment', collect, [])
+    .option('--set <name=value>', 'override a parameter value (its unit); name@experiment=value for one experiment', collect, []);
+  mannerOptions(command, 'print fit.json to standard output instead of the summary')
     .addHelpText('after', '\nExample:\n  rigcal fit models/flywheel.yaml --starts 8 --seed 1 -o flywheel-fit\n')
     .action(
       ctx.action(async (modelFile: string, opts: FitCliOptions) => {
@@ -57,7 +56,7 @@ export function register(program: Command, ctx: CommandContext): void {
         const seed = integerOption(opts.seed, '--seed', 0);
         const maxIterations = integerOption(opts.maxIterations, '--max-iterations', 1);
         const overrides = parseOverrides(opts.set ?? []);
-        const showProgress = io.stderrIsTTY && !opts.quiet;
+        const showProgress = io.stderrIsTTY; // false with --quiet (runCli)
         let lastLine = 0;
         const onProgress = showProgress
           ? (p: FitProgress) => {

@@ -1,6 +1,6 @@
 /** The `rank` command: fit candidate models of one rig on the same data and rank them. */
 import type { Command } from 'commander';
-import { integerOption } from '../options.js';
+import { integerOption, mannerOptions } from '../options.js';
 import type { CommandContext } from '../io.js';
 
 interface RankCliOptions {
@@ -13,16 +13,15 @@ interface RankCliOptions {
 }
 
 export function register(program: Command, ctx: CommandContext): void {
-  program
+  const command = program
     .command('rank')
     .description('fit candidate models of the same rig on the same experiments and rank them by AICc')
     .argument('<models...>', 'two or more model files that use the same data files and outputs')
     .option('--nested', 'also run likelihood-ratio tests between candidates ordered by free parameters (each smaller one must be a special case of the next)')
-    .option('--json', 'print the ranking as JSON instead of the table')
     .option('--starts <n>', 'starts per fit spread over the bounds (seeded)')
     .option('--seed <s>', 'seed of the starts')
-    .option('--max-iterations <n>', 'iteration limit per fit')
-    .option('--quiet', 'no progress on standard error')
+    .option('--max-iterations <n>', 'iteration limit per fit');
+  mannerOptions(command, 'print the ranking as JSON instead of the table')
     .addHelpText(
       'after',
       `
@@ -40,7 +39,7 @@ AICc and BIC count the free parameters plus the estimated noise levels.`,
         const starts = integerOption(opts.starts, '--starts', 1);
         const seed = integerOption(opts.seed, '--seed', 0);
         const maxIterations = integerOption(opts.maxIterations, '--max-iterations', 1);
-        const showProgress = ctx.io.stderrIsTTY && !opts.quiet;
+        const showProgress = ctx.io.stderrIsTTY; // false with --quiet (runCli)
         const outcome = runRank({
           modelFiles: files,
           nested: opts.nested,

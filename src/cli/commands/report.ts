@@ -2,12 +2,14 @@
 import type { Command } from 'commander';
 import { formatDuration, formatFileSize } from '../../presentation/numbers.js';
 import type { CommandContext } from '../io.js';
+import { mannerOptions } from '../options.js';
 
 export function register(program: Command, ctx: CommandContext): void {
-  program
+  const command = program
     .command('report')
     .description('rebuild report.html in a results folder of `fit` (one self-contained page that opens offline)')
-    .argument('<dir>', 'the results folder that `rigcal fit` wrote')
+    .argument('<dir>', 'the results folder that `rigcal fit` wrote');
+  mannerOptions(command, 'print what was written as JSON: {"file", "bytes", "seconds"}')
     .addHelpText('after', [
       '',
       'Reads DIR/fit.json and DIR/residuals.csv and writes DIR/report.html (through a temporary file',
@@ -16,10 +18,11 @@ export function register(program: Command, ctx: CommandContext): void {
       'Example:',
       '  rigcal report flywheel-fit',
     ].join('\n'))
-    .action(ctx.action(async (dirArg: string) => {
-      const { runReport } = await import('../../verbs/report.js'); // loaded when the command runs
+    .action(ctx.action(async (dirArg: string, opts: { json?: boolean }) => {
+      const [{ runReport }, { toJson }] = await Promise.all([import('../../verbs/report.js'), import('../../files/json.js')]); // loaded when the command runs
       const written = await runReport({ folder: dirArg, cwd: ctx.io.cwd });
-      ctx.io.stdout(`wrote ${written.file} (${formatFileSize(written.bytes)} in ${formatDuration(written.seconds)})\n`);
+      if (opts.json) ctx.io.stdout(toJson(written));
+      else ctx.io.stdout(`wrote ${written.file} (${formatFileSize(written.bytes)} in ${formatDuration(written.seconds)})\n`);
       return 0;
     }));
 }

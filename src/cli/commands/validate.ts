@@ -2,6 +2,7 @@
 import type { Command } from 'commander';
 import path from 'node:path';
 import type { CommandContext } from '../io.js';
+import { mannerOptions } from '../options.js';
 
 interface ValidateCliOptions {
   params: string;
@@ -17,7 +18,7 @@ interface ValidateCliOptions {
 const collect = (value: string, previous: string[] = []) => [...previous, value];
 
 export function register(program: Command, ctx: CommandContext): void {
-  program
+  const command = program
     .command('validate')
     .description('score a calibrated model (model file + estimates.yaml) on data it was not fitted to: RMSE, NRMSE, R^2 and residual whiteness per output')
     .argument('<model>', 'the model file (YAML)')
@@ -27,8 +28,8 @@ export function register(program: Command, ctx: CommandContext): void {
     .option('--time-unit <unit>', 'unit of the new log\'s time column (with --data; default: as in the model\'s first experiment)')
     .option('-o, --output <dir>', 'folder for validation.json, residuals.csv and report.html (default ./<model name>-validate/)')
     .option('--set <name=value>', 'a parameter value for this run (wins over the estimates), e.g. a per-experiment initial value of a new log', collect)
-    .option('--force', 'validate even though the estimates were made for another version of the model file')
-    .option('--json', 'print validation.json to standard output instead of the table')
+    .option('--force', 'validate even though the estimates were made for another version of the model file');
+  mannerOptions(command, 'print validation.json to standard output instead of the table')
     .addHelpText(
       'after',
       `
