@@ -52,9 +52,9 @@ export function register(program: Command, ctx: CommandContext): void {
           import('../../reports/summary-table.js'),
         ]);
         const io = ctx.io;
-        const starts = integerOption(opts.starts, '--starts', 1);
-        const seed = integerOption(opts.seed, '--seed', 0);
-        const maxIterations = integerOption(opts.maxIterations, '--max-iterations', 1);
+        const starts = integerOption(opts.starts, '--starts');
+        const seed = integerOption(opts.seed, '--seed');
+        const maxIterations = integerOption(opts.maxIterations, '--max-iterations');
         const overrides = parseOverrides(opts.set ?? []);
         const showProgress = io.stderrIsTTY; // false with --quiet (runCli)
         let lastLine = 0;

@@ -36,9 +36,9 @@ AICc and BIC count the free parameters plus the estimated noise levels.`,
       ctx.action(async (files: string[], opts: RankCliOptions) => {
         // Loaded when the command runs: start-up (and every other command) does without them.
         const [{ runRank }, { rankJson, rankText }, { toJson }] = await Promise.all([import('../../verbs/rank.js'), import('../../comparison/rank-report.js'), import('../../files/json.js')]);
-        const starts = integerOption(opts.starts, '--starts', 1);
-        const seed = integerOption(opts.seed, '--seed', 0);
-        const maxIterations = integerOption(opts.maxIterations, '--max-iterations', 1);
+        const starts = integerOption(opts.starts, '--starts');
+        const seed = integerOption(opts.seed, '--seed');
+        const maxIterations = integerOption(opts.maxIterations, '--max-iterations');
         const showProgress = ctx.io.stderrIsTTY; // false with --quiet (runCli)
         const outcome = runRank({
           modelFiles: files,
