@@ -16,7 +16,8 @@ import { checkModelVersion, readEstimates } from '../files/estimates-file.js';
 import { inputsOfRun, outputFileProblem } from '../files/input-guard.js';
 import { TOOL, VERSION } from '../version.js';
 import { freezeModelText, type FreezeSummary } from '../handoff/freeze-document.js';
-import { parameterTable, parameterTableCsv, parameterTableJson } from '../handoff/parameter-table.js';
+import { PARAMETER_TABLE_COLUMNS, parameterTable, parameterTableCsv, parameterTableJson } from '../handoff/parameter-table.js';
+import { assertReplaceableFile, firstLine } from '../files/own-output.js';
 import { sha256Hex } from '../files/sha256.js';
 
 export type FreezeFormat = 'yaml' | 'json' | 'csv';
@@ -106,7 +107,18 @@ export function runFreeze(options: FreezeOptions & { output: string }): FreezeOu
 function checkOutputPath(output: string, asGiven: string, overwrite: boolean | undefined, model: Model, estimatesPath: string): void {
   const problem = outputFileProblem({ file: output, where: { file: asGiven }, example: 'calibrated.yaml' }, inputsOfRun(model, estimatesPath));
   if (problem) throw new UserError(problem);
-  if (existsSync(output) && !overwrite) {
-    throw new UserError({ where: { file: asGiven }, what: 'exists already', fix: 'choose another output file, or add --overwrite to replace it' });
+  assertReplaceableFile(output, asGiven, overwrite, isFreezeOutput, 'an output of rigcal freeze');
+}
+
+/** A file freeze wrote: a frozen model (its header line), or the parameter table as CSV or JSON. */
+function isFreezeOutput(head: string): boolean {
+  const line = firstLine(head);
+  if (/^# Calibrated copy of .+, written by rigcal \S+ \(freeze\) on \S+$/.test(line) || line.startsWith('# WARNING (rigcal freeze --force):')) return true;
+  if (line === PARAMETER_TABLE_COLUMNS.join(',')) return true;
+  try {
+    const rows = JSON.parse(head) as unknown;
+    return Array.isArray(rows) && rows.length > 0 && rows.every((r) => typeof r === 'object' && r !== null && 'name' in r && Object.keys(r).every((k) => (PARAMETER_TABLE_COLUMNS as readonly string[]).includes(k)));
+  } catch {
+    return false;
   }
 }

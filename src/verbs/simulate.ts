@@ -12,6 +12,7 @@ import { UserError, type Problem } from '../errors.js';
 import type { ExperimentData } from '../data/types.js';
 import { loadExperimentData } from '../data/load-experiment.js';
 import { writeFileAtomic } from '../files/atomic-file.js';
+import { assertReplaceableFile, firstLine } from '../files/own-output.js';
 import { checkModelVersion, readEstimates } from '../files/estimates-file.js';
 import { inputsOfRun, refuseOverwritingInputs } from '../files/input-guard.js';
 import { pathFromCwd } from '../files/paths.js';
@@ -34,6 +35,8 @@ export interface SimulateOptions {
   estimatesFile?: string;
   /** CSV file to write; omitted: nothing is written (the CSV is in the result). */
   output?: string;
+  /** Replace `output` even when it is not a simulation CSV of ours for this model. */
+  overwrite?: boolean;
   /**
    * Simulate from t = 0 over this span (model time unit) without data, rows `interval` apart
    * (default duration / 1000). A number, or the text given on the command line (checked here).
@@ -74,7 +77,10 @@ export function runSimulate(options: SimulateOptions): SimulateResult {
 
   const runs = options.duration !== undefined ? [simulateWithoutData(model, compiled, options, values)] : simulateLogs(model, compiled, options, values);
   const csv = renderSimulationCsv(model, runs);
-  if (outputPath) writeOutput(outputPath, options.output!, csv);
+  if (outputPath) {
+    assertReplaceableFile(outputPath, options.output!, options.overwrite, (head) => isSimulationCsvOf(model, head), `a simulation CSV of rigcal for model ${model.name}`);
+    writeOutput(outputPath, options.output!, csv);
+  }
   return { model, runs, csv, rows: runs.reduce((n, r) => n + r.result.time.length, 0), written: outputPath, notes };
 }
 
@@ -170,6 +176,13 @@ function parseConstantInputs(model: Model, pairs: string[]): Float64Array {
   }
   if (problems.length) throw new UserError(problems);
   return u;
+}
+
+/** A CSV that simulate wrote for this model: its header is experiment, time, then columns of the model's outputs and states. */
+function isSimulationCsvOf(model: Model, head: string): boolean {
+  const cells = firstLine(head).split(',');
+  const known = new Set([...model.outputs.flatMap((o) => [o.name, `${o.name}_measured`]), ...model.states.map((s) => `${s.name}_state`)]);
+  return cells[0] === 'experiment' && cells[1] === 'time' && cells.length > 2 && cells.slice(2).every((c) => known.has(c));
 }
 
 /** Writes the CSV whole or not at all; a folder that is missing or not writable is the user's to mend. */

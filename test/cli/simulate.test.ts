@@ -246,6 +246,28 @@ describe('rigcal simulate -o: never an input file, written whole or not at all',
     expect([sha(join(dir, 'm.yaml')), sha(join(dir, 'ref-shaker-chirp.csv'))]).toEqual(before);
   });
 
+  it('replaces its own earlier CSV, and a file it did not write only with --overwrite', async () => {
+    const dir = join(scratch.dir, 'replace');
+    const { mkdirSync, writeFileSync, readFileSync } = await import('node:fs');
+    mkdirSync(dir);
+    for (const f of ['ref-shaker.yaml', 'ref-shaker-chirp.csv', 'ref-shaker-random.csv']) copyFileSync(join(root, 'test/fixtures/models', f), join(dir, f === 'ref-shaker.yaml' ? 'm.yaml' : f));
+    expect((await rigcal(['simulate', 'm.yaml', '-o', 'out.csv', '--quiet'], dir)).code).toBe(0);
+    const first = readFileSync(join(dir, 'out.csv'), 'utf8');
+    // Our own output of this model, even for another selection of experiments: replaced without asking.
+    const again = await rigcal(['simulate', 'm.yaml', '-e', 'chirp', '-o', 'out.csv', '--quiet'], dir);
+    expect(again.code, again.stderr).toBe(0);
+    expect(readFileSync(join(dir, 'out.csv'), 'utf8')).not.toBe(first);
+    // Someone else's file: kept, and the message says how to replace it.
+    writeFileSync(join(dir, 'notes.csv'), 'experiment,time,my_column\nA,0,1\n');
+    const foreign = await rigcal(['simulate', 'm.yaml', '-o', 'notes.csv', '--quiet'], dir);
+    expect(foreign.code).toBe(2);
+    expect(foreign.stderr).toMatch(/notes\.csv.*exists already and is not a simulation CSV of rigcal for model .*; it will not be replaced/s);
+    expect(foreign.stderr).toMatch(/--overwrite/);
+    expect(readFileSync(join(dir, 'notes.csv'), 'utf8')).toBe('experiment,time,my_column\nA,0,1\n');
+    expect((await rigcal(['simulate', 'm.yaml', '-o', 'notes.csv', '--overwrite', '--quiet'], dir)).code).toBe(0);
+    expect(readFileSync(join(dir, 'notes.csv'), 'utf8').split('\n')[0]).toBe(first.split('\n')[0]);
+  });
+
   it('leaves an existing output untouched and no temporary file behind when the simulation fails (exit 1)', async () => {
     const dir = join(scratch.dir, 'failing');
     const { mkdirSync } = await import('node:fs');

@@ -146,7 +146,7 @@ describe('freeze on a fitted rig', () => {
     expect(readFileSync(path.join(dir, 'x.yaml'), 'utf8')).toMatch(/^# WARNING \(rigcal freeze --force\)/);
   });
 
-  it('never overwrites the model, the estimates or an existing output without --overwrite', async () => {
+  it('never overwrites the model or the estimates; replaces its own earlier output, and a file of someone else only with --overwrite', async () => {
     const before = readFileSync(modelFile, 'utf8');
     const self = cli(['freeze', modelFile, '--params', estimatesFile, '-o', modelFile, '--overwrite'], dir);
     expect(await self.code).toBe(2);
@@ -154,9 +154,15 @@ describe('freeze on a fitted rig', () => {
     expect(readFileSync(modelFile, 'utf8')).toBe(before);
     const est = cli(['freeze', modelFile, '--params', estimatesFile, '-o', estimatesFile, '--overwrite'], dir);
     expect(await est.code).toBe(2);
+    // Its own earlier output is replaced as a results folder of ours would be.
     const again = cli(['freeze', modelFile, '--params', estimatesFile, '-o', frozenFile], dir);
-    expect(await again.code).toBe(2);
-    expect(again.err.join('')).toMatch(/exists already.*--overwrite/s);
+    expect(await again.code, again.err.join('')).toBe(0);
+    // A file it did not write is kept unless --overwrite says otherwise.
+    writeFileSync(frozenFile, 'my own notes: keep\n');
+    const foreign = cli(['freeze', modelFile, '--params', estimatesFile, '-o', frozenFile], dir);
+    expect(await foreign.code).toBe(2);
+    expect(foreign.err.join('')).toMatch(/exists already and is not an output of rigcal freeze; it will not be replaced.*--overwrite/s);
+    expect(readFileSync(frozenFile, 'utf8')).toBe('my own notes: keep\n');
     const replace = cli(['freeze', modelFile, '--params', estimatesFile, '-o', frozenFile, '--overwrite'], dir);
     expect(await replace.code, replace.err.join('')).toBe(0);
     // Atomic write: no temporary file left beside the output.

@@ -18,6 +18,7 @@ interface SimulateCliOptions {
   interval?: string;
   input?: string[];
   json?: boolean;
+  overwrite?: boolean;
 }
 
 // No default list in the option definitions: commander would print "(default: [])" in the help.
@@ -32,6 +33,7 @@ export function register(program: Command, ctx: CommandContext): void {
     .option('--set <name=value>', 'use this parameter value for this run, in the parameter\'s unit; name@experiment=value for a per-experiment copy (repeatable)', collect)
     .option('--params <file>', 'take the estimated values from a results file of `rigcal fit` (estimates.yaml)')
     .option('-o, --output <file.csv>', 'write the CSV here (written whole or not at all); - or none: standard output')
+    .option('--overwrite', 'replace the output file even when it is not a simulation CSV of rigcal for this model')
     .option('--duration <T>', 'simulate from t = 0 over this span (in the model\'s time unit) without data')
     .option('--interval <dt>', 'with --duration: time between output rows (default: duration / 1000)')
     .option('--input <name=value>', 'with --duration: a constant input value in the input\'s unit (repeatable; default 0)', collect);
@@ -66,6 +68,7 @@ export function register(program: Command, ctx: CommandContext): void {
         overrides: parseOverrides(options.set ?? []),
         estimatesFile: options.params,
         output: toFile ? options.output : undefined,
+        overwrite: options.overwrite,
         duration: options.duration,
         interval: options.interval,
         inputs: options.input ?? [],
