@@ -64,7 +64,8 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
     const exp = model.experiments[index];
     const d = loadExperimentData(model, index);
     const isNew = options.dataFile !== undefined;
-    data.push({ experiment: exp.name, source: isNew ? 'new log' : exp.role, file: exp.fileAsWritten, sha256: d.sha256, rows: d.time.length });
+    const inSample = !isNew && wasFitted(estimates, exp.name, exp.role);
+    data.push({ experiment: exp.name, source: isNew ? 'new log' : exp.role, inSample, file: exp.fileAsWritten, sha256: d.sha256, rows: d.time.length });
     noteStartValues(model, exp.name, values, options.overrides ?? {}, warnings);
     const p = parameterVector(compiled, index, { ...values, ...(options.overrides ?? {}) });
     for (const spec of model.parameters) {
@@ -76,7 +77,7 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
     model.outputs.forEach((o, j) => {
       const measured = d.outputs[j];
       if (!measured) return;
-      const s: ResidualSeries = { experiment: exp.name, role: 'validation', output: o.name, unit: o.unit, time: d.time, measured, simulated: sim.outputs[j] };
+      const s: ResidualSeries = { experiment: exp.name, role: inSample ? 'fit' : 'validation', output: o.name, unit: o.unit, time: d.time, measured, simulated: sim.outputs[j] };
       series.push(s);
       const score = scoreSeries(measured, sim.outputs[j]);
       const diag = residualDiagnostics(s, model.inputs.map((inp, k) => ({ name: inp.name, values: d.inputs[k] })), { timeUnit: model.isStatic ? undefined : model.timeUnit });
@@ -89,6 +90,7 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
         rmse: score.rmse,
         nrmse: score.nrmse,
         r2: score.r2,
+        inSample,
         whiteness: diag.whiteness,
         verdict: diag.verdict,
         correlatedUpTo: diag.correlatedUpTo,
@@ -116,6 +118,15 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
   };
   const noise = Object.fromEntries(Object.entries(estimates.noise).map(([k, v]) => [k, { sigma: v.sigma, estimated: v.estimated }]));
   return { result, series, noise };
+}
+
+/**
+ * Whether the estimates were fitted to an experiment: by the record of the fit in estimates.yaml
+ * (each data file with its role), or by the model file's role when the record has none.
+ */
+function wasFitted(estimates: EstimatesFile, experiment: string, role: 'fit' | 'validation'): boolean {
+  const recorded = estimates.data.find((d) => d.experiment === experiment);
+  return recorded ? recorded.role === 'fit' : role === 'fit';
 }
 
 /** Which experiments to score: named ones, a new log (added to a copy of the model), or every validation experiment. */

@@ -16,6 +16,11 @@ export interface ValidationOutputScore {
   /** RMSE over the standard deviation of the measurement (dimensionless; 0 is perfect, 1 is no better than the mean). */
   nrmse: number;
   r2: number;
+  /**
+   * True when the estimates were fitted to this experiment's data: the score is then in-sample and
+   * says how well the fit matched, not how well the model predicts data it has not seen.
+   */
+  inSample: boolean;
   whiteness?: WhitenessResult;
   /** In words: are the residuals plain noise, or does the model miss something? */
   verdict: string;
@@ -26,6 +31,8 @@ export interface ValidationData {
   experiment: string;
   /** `fit` or `validation` for an experiment of the model file; `new log` for --data. */
   source: 'fit' | 'validation' | 'new log';
+  /** The estimates were fitted to these data (see ValidationOutputScore.inSample). */
+  inSample: boolean;
   file: string;
   sha256: string;
   rows: number;
