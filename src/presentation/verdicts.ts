@@ -56,3 +56,8 @@ export function fitStatusPhrase(status: string, message: string): string {
   if (status === 'stopped') return `STOPPED BEFORE CONVERGING (${message}): the estimates are the last point reached, not an optimum (exit code 3)`;
   return `${status} (${message})`;
 }
+
+/** Why an output has no R^2: its measurement is constant in that experiment (value already with its unit). */
+export function constantOutputWarning(output: string, experiment: string, value: string): string {
+  return `output ${output} in experiment ${experiment} is constant (value ${value}): R^2 and NRMSE are not defined; RMSE still is`;
+}

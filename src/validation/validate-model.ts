@@ -9,6 +9,7 @@ import { residualDiagnostics, scoreSeries } from '../diagnostics/index.js';
 import type { ResidualSeries } from '../diagnostics/types.js';
 import { loadExperimentData } from '../data/load-experiment.js';
 import { nearestNames } from '../presentation/nearest-names.js';
+import { constantOutputWarning, withUnit } from '../presentation/index.js';
 import { compileModel } from '../model/compile/index.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
@@ -80,6 +81,7 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
       const s: ResidualSeries = { experiment: exp.name, role: inSample ? 'fit' : 'validation', output: o.name, unit: o.unit, time: d.time, measured, simulated: sim.outputs[j] };
       series.push(s);
       const score = scoreSeries(measured, sim.outputs[j]);
+      if (score.constantValue !== undefined) warnings.push(constantOutputWarning(o.name, exp.name, withUnit(score.constantValue, o.unit)));
       const diag = residualDiagnostics(s, model.inputs.map((inp, k) => ({ name: inp.name, values: d.inputs[k] })), { timeUnit: model.isStatic ? undefined : model.timeUnit });
       outputs.push({
         experiment: exp.name,
