@@ -13,13 +13,13 @@ import { constantOutputWarning, withUnit } from '../presentation/index.js';
 import { compileModel } from '../model/compile/index.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
-import { checkModelVersion, readEstimates, type EstimatesFile } from '../files/estimates-file.js';
+import { checkDataVersions, checkModelVersion, readEstimates, type EstimatesFile } from '../files/estimates-file.js';
 import { parameterVector } from '../simulation/parameters.js';
 import { parseUnit } from '../units/registry.js';
 import { simulateExperiment } from '../simulation/simulate.js';
 import { VERSION } from '../version.js';
 import { withNewLog } from './new-log-experiment.js';
-import type { ValidationData, ValidationOutputScore, ValidationResult } from './validation-result.js';
+import type { DataChange, ValidationData, ValidationOutputScore, ValidationResult } from './validation-result.js';
 
 export interface ValidateOptions {
   modelFile: string;
@@ -32,7 +32,7 @@ export interface ValidateOptions {
   dataTimeUnit?: string;
   /** `--set name=value` values (win over the estimates, e.g. a per-experiment initial value of a new log). */
   overrides?: Record<string, number>;
-  /** Validate even when the estimates were made for another version of the model file. */
+  /** Validate even when the estimates were made for another version of the model file or of a data file. */
   force?: boolean;
   cwd?: string;
   date?: string;
@@ -50,8 +50,7 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
   const loaded = loadModel(path.resolve(cwd, options.modelFile), { overrides: options.overrides });
   const estimates = readEstimates(path.resolve(cwd, options.estimatesFile));
   const warnings: string[] = [];
-  const mismatch = checkModelVersion(estimates, loaded, { estimatesLabel: options.estimatesFile, modelLabel: options.modelFile, force: options.force });
-  if (mismatch) warnings.push(`${mismatch.warning}; validated anyway because of --force`);
+  const dataChanges = checkVersions(estimates, loaded, options, warnings);
   const { model: calibrated, values } = applyEstimates(loaded, estimates, options.estimatesFile, warnings);
 
   const { model, indices } = chooseExperiments(calibrated, options, cwd);
@@ -118,8 +117,21 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
     parameters: used,
     warnings,
   };
+  if (dataChanges.length) result.dataChanges = dataChanges;
   const noise = Object.fromEntries(Object.entries(estimates.noise).map(([k, v]) => [k, { sigma: v.sigma, estimated: v.estimated }]));
   return { result, series, noise };
+}
+
+/**
+ * The estimates must belong to this model file and to the data files as they are now; a mismatch
+ * accepted with --force becomes a warning, and each changed data file is returned with both hashes.
+ */
+function checkVersions(estimates: EstimatesFile, model: Model, options: ValidateOptions, warnings: string[]): DataChange[] {
+  const mismatch = checkModelVersion(estimates, model, { estimatesLabel: options.estimatesFile, modelLabel: options.modelFile, force: options.force });
+  if (mismatch) warnings.push(`${mismatch.warning}; validated anyway because of --force`);
+  const changed = checkDataVersions(estimates, model, { estimatesLabel: options.estimatesFile, force: options.force });
+  for (const c of changed) warnings.push(`${c.warning}; validated anyway because of --force`);
+  return changed.map((c) => ({ experiment: c.experiment, file: c.file, recordedSha256: c.recorded, currentSha256: c.current }));
 }
 
 /**

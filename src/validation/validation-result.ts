@@ -38,6 +38,16 @@ export interface ValidationData {
   rows: number;
 }
 
+/** A data file accepted with --force although it is not the one the estimates were made from. */
+export interface DataChange {
+  experiment: string;
+  file: string;
+  /** The SHA-256 estimates.yaml records for the file. */
+  recordedSha256: string;
+  /** The SHA-256 of the file as validated (or why it could not be read). */
+  currentSha256: string;
+}
+
 export interface ValidationResult {
   tool: 'rigcal';
   version: string;
@@ -53,4 +63,6 @@ export interface ValidationResult {
   /** Values used for the parameters, by name (`name@experiment` for per-experiment copies). */
   parameters: Record<string, number>;
   warnings: string[];
+  /** Present when --force let changed data files through: both hashes of each. */
+  dataChanges?: DataChange[];
 }
