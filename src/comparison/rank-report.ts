@@ -56,7 +56,8 @@ export function rankText(r: RankOutcome): string {
   if (validationKeys.length) lines.push('NRMSE: RMSE over the standard deviation of the measurement, on validation experiments (never fitted); lower is better.');
   lines.push('', `preferred: ${r.preferred}: ${r.reason}.`);
   for (const m of r.models) {
-    if (m.status !== 'converged') lines.push(`  ${m.name}: the fit ended with status "${m.status}": its place in the ranking is not reliable`);
+    if (m.status === 'stopped') lines.push(`  ${m.name}: the fit stopped on its iteration limit before converging: its place in the ranking is not reliable (exit code 3; raise --max-iterations)`);
+    else if (m.status !== 'converged') lines.push(`  ${m.name}: the fit ended with status "${m.status}": its place in the ranking is not reliable`);
     const notWhite = m.whiteness.filter((w) => w.white === false);
     if (notWhite.length) lines.push(`  ${m.name}: ${notWhite.map((w) => `${w.experiment}/${w.output}: ${w.verdict}`).join('; ')}`);
   }

@@ -15,20 +15,29 @@ export interface SeriesScore {
    * nrmse = sqrt(1 - r2). NaN when the measurement is constant.
    */
   nrmse: number;
-  /** Coefficient of determination 1 - SSE/SST (can be negative for a model worse than the mean). */
+  /** Coefficient of determination 1 - SSE/SST (can be negative for a model worse than the mean). NaN when the measurement is constant. */
   r2: number;
+  /**
+   * The measurement's one value when every scored sample has it: R^2 and NRMSE are then not defined
+   * (no variance to explain), and are NaN; RMSE still is.
+   */
+  constantValue?: number;
 }
 
 export function scoreSeries(measured: ArrayLike<number>, simulated: ArrayLike<number>): SeriesScore {
   const n = Math.min(measured.length, simulated.length);
   let count = 0;
   let sumY = 0;
+  let lowest = Infinity;
+  let highest = -Infinity;
   for (let i = 0; i < n; i++) {
     const y = measured[i];
     const s = simulated[i];
     if (Number.isFinite(y) && Number.isFinite(s)) {
       count++;
       sumY += y;
+      lowest = Math.min(lowest, y);
+      highest = Math.max(highest, y);
     }
   }
   const missing = Math.max(measured.length, simulated.length) - count;
@@ -45,6 +54,9 @@ export function scoreSeries(measured: ArrayLike<number>, simulated: ArrayLike<nu
     }
   }
   const rmse = Math.sqrt(sse / count);
+  // A constant log is tested on its values, not on SST: the rounding of the mean leaves SST a tiny
+  // positive number (1e-30 for a log of 0.1), and 1 - SSE/SST then comes out near -1e26.
+  if (lowest === highest) return { samples: count, missing, rmse, nrmse: NaN, r2: NaN, constantValue: lowest };
   const std = Math.sqrt(sst / count);
   return {
     samples: count,

@@ -5,9 +5,10 @@
  * the line and the key.
  */
 import { readFileSync, statSync } from 'node:fs';
-import { LineCounter, isMap, isPair, isScalar, parseDocument, type Node } from 'yaml';
+import { LineCounter, isMap, isPair, isScalar, parseDocument, type Document, type Node } from 'yaml';
 import { ProblemList, UserError, type SourceLocation } from '../errors.js';
 import type { Model } from '../model/types.js';
+import { sha256OfFile } from './sha256.js';
 
 /** Larger than any real estimates file by far; refuses a wrong file before parsing it. */
 const MAX_BYTES = 4 * 1024 * 1024;
@@ -39,20 +40,55 @@ function isNumber(v: unknown): v is number {
   return typeof v === 'number' && !Number.isNaN(v);
 }
 
-export function readEstimates(file: string): EstimatesFile {
-  let text: string;
+function readEstimatesText(file: string): string {
   try {
     const size = statSync(file).size;
     if (size > MAX_BYTES) {
       throw new UserError({ where: { file }, what: `the estimates file is ${size} bytes, more than an estimates file can be (${MAX_BYTES} bytes)`, fix: 'pass the estimates.yaml written by `rigcal fit`' });
     }
-    text = readFileSync(file, 'utf8');
+    return readFileSync(file, 'utf8');
   } catch (err) {
     if (err instanceof UserError) throw err;
     throw new UserError({ where: { file }, what: `cannot read the estimates file (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`, fix: 'give the path of an estimates.yaml written by `rigcal fit`' });
   }
+}
+
+/** The YAML problems of the file, each located; a second document is named as such. */
+function syntaxProblems(file: string, doc: Document, lineCounter: LineCounter): ProblemList {
+  const problems = new ProblemList();
+  for (const e of doc.errors) {
+    const pos = e.linePos?.[0] ?? lineCounter.linePos(e.pos[0]);
+    const what =
+      e.code === 'MULTIPLE_DOCS'
+        ? 'holds more than one YAML document (a `---` line after the first one); an estimates file is a single document'
+        : `not valid YAML: ${e.message.split('\n')[0]}`;
+    problems.add({ file, line: pos?.line, column: pos?.col }, what, 'pass the estimates.yaml written by `rigcal fit`, unedited');
+  }
+  return problems;
+}
+
+/**
+ * The file as plain data. rigcal writes no aliases; a file whose aliases expand past the library's
+ * limit (an "alias bomb", which would take memory and time without bound) is refused as input.
+ */
+function plainData(file: string, doc: Document): Record<string, any> | null {
+  try {
+    return doc.toJS({ maxAliasCount: 10 }) as Record<string, any> | null;
+  } catch (err) {
+    if (!(err instanceof ReferenceError)) throw err;
+    throw new UserError({
+      where: { file },
+      what: 'its YAML aliases (*name) expand to far more data than an estimates file holds: it is not an estimates file of rigcal',
+      fix: 'pass the estimates.yaml written by `rigcal fit`, unedited (it contains no anchors or aliases)',
+    });
+  }
+}
+
+export function readEstimates(file: string): EstimatesFile {
+  const text = readEstimatesText(file);
   const lineCounter = new LineCounter();
   const doc = parseDocument(text, { lineCounter, prettyErrors: false, uniqueKeys: true });
+  syntaxProblems(file, doc, lineCounter).throwIfAny();
   const problems = new ProblemList();
   const at = (node: Node | null | undefined, key: string): SourceLocation => {
     const where: SourceLocation = { file, key };
@@ -63,15 +99,8 @@ export function readEstimates(file: string): EstimatesFile {
     }
     return where;
   };
-  if (doc.errors.length) {
-    for (const e of doc.errors) {
-      const pos = e.linePos?.[0];
-      problems.add({ file, line: pos?.line, column: pos?.col }, `not valid YAML: ${e.message.split('\n')[0]}`, 'pass the estimates.yaml written by `rigcal fit`, unedited');
-    }
-    problems.throwIfAny();
-  }
   const root = doc.contents;
-  const plain = doc.toJS({ maxAliasCount: 10 }) as Record<string, any> | null;
+  const plain = plainData(file, doc);
   if (!isMap(root) || plain === null || typeof plain !== 'object' || plain.tool !== 'rigcal') {
     throw new UserError({ where: { file, key: 'tool' }, what: 'this is not an estimates file of rigcal (no `tool: rigcal` at the top)', fix: 'pass the estimates.yaml written by `rigcal fit`' });
   }
@@ -178,4 +207,54 @@ export function checkModelVersion(
     estimates: recorded,
     warning: `${options.estimatesLabel} was fitted to a different version of ${options.modelLabel}: the estimates were made for a model file with sha256 ${recorded}, not this one (${model.sha256})`,
   };
+}
+
+/** A data file that is no longer the one the estimates were made from (both hashes shown safely). */
+export interface DataVersionMismatch {
+  experiment: string;
+  /** The data file as the model file names it. */
+  file: string;
+  /** The SHA-256 estimates.yaml records for it. */
+  recorded: string;
+  /** The SHA-256 of the file now, or why it cannot be read. */
+  current: string;
+  /** The same in words, for the run's warnings. */
+  warning: string;
+}
+
+/**
+ * Whether the data files the estimates record are still the ones the fit read: for each experiment
+ * recorded in estimates.yaml that the model still has, the recorded SHA-256 against the file's now.
+ * An edited, replaced or missing log is refused (UserError, exit 2, one problem per file) unless the
+ * run accepts it (`force`); accepted ones are returned, for the run to record both hashes.
+ */
+export function checkDataVersions(estimates: EstimatesFile, model: Model, options: { estimatesLabel: string; force?: boolean }): DataVersionMismatch[] {
+  const mismatches: DataVersionMismatch[] = [];
+  for (const d of estimates.data) {
+    const experiment = model.experiments.find((e) => e.name === d.experiment);
+    if (!experiment) continue;
+    const now = sha256OfFile(experiment.file);
+    const current = now.ok ? now.sha256 : `(cannot read the file: ${now.code})`;
+    if (now.ok && now.sha256 === d.sha256) continue;
+    const recorded = shownHash(d.sha256);
+    mismatches.push({
+      experiment: experiment.name,
+      file: experiment.fileAsWritten,
+      recorded,
+      current,
+      warning: `the data file ${experiment.fileAsWritten} of experiment ${experiment.name} is not the one the estimates were made from: ${options.estimatesLabel} records sha256 ${recorded}, the file now has sha256 ${current}`,
+    });
+  }
+  if (mismatches.length && !options.force) {
+    throw new UserError(
+      mismatches.map((m) => ({
+        where: { file: m.file },
+        what:
+          `the data of experiment ${m.experiment} changed since the fit: ${options.estimatesLabel} records sha256 ${m.recorded} ` +
+          `for this file, but it now has sha256 ${m.current}`,
+        fix: 'fit the model again on the data as they are now; or, to use these estimates with the changed data anyway, add --force (the output then records both hashes)',
+      })),
+    );
+  }
+  return mismatches;
 }

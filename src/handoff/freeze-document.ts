@@ -31,6 +31,8 @@ export interface FreezeDocumentOptions {
   /** Date of the freeze (ISO-8601), and the tool's name and version. */
   date: string;
   toolVersion: string;
+  /** Data files accepted with --force although changed since the fit: their hash now, by experiment. */
+  changedData?: Record<string, string>;
 }
 
 export interface FreezeSummary {
@@ -280,7 +282,10 @@ function headerLines(model: Model, estimates: EstimatesFile, options: FreezeDocu
   ];
   if (estimates.data.length) {
     lines.push(' Data of that fit:');
-    for (const d of estimates.data) lines.push(`   ${d.experiment} (${d.role}): ${d.file}, sha256 ${d.sha256}`);
+    for (const d of estimates.data) {
+      const now = options.changedData?.[d.experiment];
+      lines.push(`   ${d.experiment} (${d.role}): ${d.file}, sha256 ${d.sha256}${now ? ` when fitted; CHANGED since: the file now has sha256 ${now} (frozen anyway with --force)` : ''}`);
+    }
   }
   lines.push(
     ' Cautions: these values hold only inside the operating range the data above covered (amplitudes,',

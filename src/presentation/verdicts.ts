@@ -47,3 +47,17 @@ export function likelihoodRatioVerdict(larger: string, smaller: string, signific
     ? `${larger} fits significantly better than ${smaller} at the ${alpha * 100} % level: its extra parameters are supported`
     : `${larger} does not fit significantly better than ${smaller} at the ${alpha * 100} % level: keep the simpler model`;
 }
+
+/**
+ * The words of a fit's status, where a person reads it first: a fit that stopped on its iteration
+ * limit has estimates that are the last point reached, not an optimum, and the CLI exits 3 for it.
+ */
+export function fitStatusPhrase(status: string, message: string): string {
+  if (status === 'stopped') return `STOPPED BEFORE CONVERGING (${message}): the estimates are the last point reached, not an optimum (exit code 3)`;
+  return `${status} (${message})`;
+}
+
+/** Why an output has no R^2: its measurement is constant in that experiment (value already with its unit). */
+export function constantOutputWarning(output: string, experiment: string, value: string): string {
+  return `output ${output} in experiment ${experiment} is constant (value ${value}): R^2 and NRMSE are not defined; RMSE still is`;
+}

@@ -1,7 +1,7 @@
 /** The fit quality that `rigcal simulate` prints where an experiment has data (a table, or rows for --json). */
 import { scoreSeries } from '../diagnostics/scores.js';
 import type { Model } from '../model/types.js';
-import { formatNumber, indentedTable as plainTable, withUnit } from '../presentation/index.js';
+import { constantOutputWarning, formatNumber, indentedTable as plainTable, withUnit } from '../presentation/index.js';
 import type { SimulatedExperiment } from './simulation-csv.js';
 
 /** One experiment's measured output against the simulation: RMSE in the output's unit. */
@@ -13,7 +13,10 @@ export interface QualityRow {
   samples: number;
   missing: number;
   rmse: number;
+  /** NaN (null in JSON) when the measurement is constant: R^2 is not defined then. */
   r2: number;
+  /** The value of a constant measurement, when it is one. */
+  constantValue?: number;
 }
 
 /** Fit quality per experiment and measured output, as plain data (full precision). */
@@ -25,15 +28,20 @@ export function qualityRows(model: Model, runs: readonly SimulatedExperiment[]):
       const measured = data.outputs[j];
       if (!measured) return;
       const s = scoreSeries(measured, result.outputs[j]);
-      rows.push({ experiment: result.experiment, role: data.experiment.role, output: o.name, unit: o.unit, samples: s.samples, missing: data.missing[j], rmse: s.rmse, r2: s.r2 });
+      rows.push({
+        experiment: result.experiment, role: data.experiment.role, output: o.name, unit: o.unit, samples: s.samples, missing: data.missing[j], rmse: s.rmse, r2: s.r2,
+        ...(s.constantValue !== undefined ? { constantValue: s.constantValue } : {}),
+      });
     });
   }
   return rows;
 }
 
-/** Fit quality per experiment and measured output: samples, missing, RMSE (with unit), R^2. */
+/** Fit quality per experiment and measured output: samples, missing, RMSE (with unit), R^2; then why an R^2 is missing. */
 export function renderQuality(model: Model, runs: readonly SimulatedExperiment[]): string {
-  const rows = qualityRows(model, runs).map((r) => [r.experiment, r.role, r.output, String(r.samples), String(r.missing), withUnit(r.rmse, r.unit), formatNumber(r.r2, 5)]);
-  if (!rows.length) return '';
-  return `fit quality (measured - simulated)\n${plainTable(['experiment', 'role', 'output', 'samples', 'missing', 'RMSE', 'R^2'], rows)}\n`;
+  const quality = qualityRows(model, runs);
+  if (!quality.length) return '';
+  const rows = quality.map((r) => [r.experiment, r.role, r.output, String(r.samples), String(r.missing), withUnit(r.rmse, r.unit), formatNumber(r.r2, 5)]);
+  const warnings = quality.filter((r) => r.constantValue !== undefined).map((r) => `warning: ${constantOutputWarning(r.output, r.experiment, withUnit(r.constantValue, r.unit))}\n`);
+  return `fit quality (measured - simulated)\n${plainTable(['experiment', 'role', 'output', 'samples', 'missing', 'RMSE', 'R^2'], rows)}\n${warnings.join('')}`;
 }

@@ -3,7 +3,7 @@
  * the results folder. Plain text, fixed-width columns, every number with its unit.
  */
 import type { FitResult, ParameterResult } from '../estimation/fit/fit-result.js';
-import { formatCriterionFixed, formatDuration, formatNumber, RESIDUAL_VERDICTS, textTable, withUnit } from '../presentation/index.js';
+import { fitStatusPhrase, formatCriterionFixed, formatDuration, formatNumber, RESIDUAL_VERDICTS, textTable, withUnit } from '../presentation/index.js';
 
 // Rounded for reading (the full values are in the results folder): estimates and intervals with six
 // significant digits so that a narrow interval stays distinguishable from its estimate, the rest
@@ -49,7 +49,7 @@ export function renderFitSummary(fit: FitResult, resultsFolder?: string): string
   const s = fit.statistics;
   const parts: string[] = [];
   parts.push(
-    `fit of ${fit.model.name}: ${fit.status} (${fit.message}); ${fit.iterations} iterations, ${fit.simulations} simulations` +
+    `fit of ${fit.model.name}: ${fitStatusPhrase(fit.status, fit.message)}; ${fit.iterations} iterations, ${fit.simulations} simulations` +
       (fit.sensitivitySimulations !== undefined ? ` + ${fit.sensitivitySimulations} with sensitivities` : '') +
       `, ${formatDuration(fit.wallSeconds)}`,
   );

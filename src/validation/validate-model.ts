@@ -9,16 +9,17 @@ import { residualDiagnostics, scoreSeries } from '../diagnostics/index.js';
 import type { ResidualSeries } from '../diagnostics/types.js';
 import { loadExperimentData } from '../data/load-experiment.js';
 import { nearestNames } from '../presentation/nearest-names.js';
+import { constantOutputWarning, withUnit } from '../presentation/index.js';
 import { compileModel } from '../model/compile/index.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
-import { checkModelVersion, readEstimates, type EstimatesFile } from '../files/estimates-file.js';
+import { checkDataVersions, checkModelVersion, readEstimates, type EstimatesFile } from '../files/estimates-file.js';
 import { parameterVector } from '../simulation/parameters.js';
 import { parseUnit } from '../units/registry.js';
 import { simulateExperiment } from '../simulation/simulate.js';
 import { VERSION } from '../version.js';
 import { withNewLog } from './new-log-experiment.js';
-import type { ValidationData, ValidationOutputScore, ValidationResult } from './validation-result.js';
+import type { DataChange, ValidationData, ValidationOutputScore, ValidationResult } from './validation-result.js';
 
 export interface ValidateOptions {
   modelFile: string;
@@ -31,7 +32,7 @@ export interface ValidateOptions {
   dataTimeUnit?: string;
   /** `--set name=value` values (win over the estimates, e.g. a per-experiment initial value of a new log). */
   overrides?: Record<string, number>;
-  /** Validate even when the estimates were made for another version of the model file. */
+  /** Validate even when the estimates were made for another version of the model file or of a data file. */
   force?: boolean;
   cwd?: string;
   date?: string;
@@ -49,8 +50,7 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
   const loaded = loadModel(path.resolve(cwd, options.modelFile), { overrides: options.overrides });
   const estimates = readEstimates(path.resolve(cwd, options.estimatesFile));
   const warnings: string[] = [];
-  const mismatch = checkModelVersion(estimates, loaded, { estimatesLabel: options.estimatesFile, modelLabel: options.modelFile, force: options.force });
-  if (mismatch) warnings.push(`${mismatch.warning}; validated anyway because of --force`);
+  const dataChanges = checkVersions(estimates, loaded, options, warnings);
   const { model: calibrated, values } = applyEstimates(loaded, estimates, options.estimatesFile, warnings);
 
   const { model, indices } = chooseExperiments(calibrated, options, cwd);
@@ -64,7 +64,8 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
     const exp = model.experiments[index];
     const d = loadExperimentData(model, index);
     const isNew = options.dataFile !== undefined;
-    data.push({ experiment: exp.name, source: isNew ? 'new log' : exp.role, file: exp.fileAsWritten, sha256: d.sha256, rows: d.time.length });
+    const inSample = !isNew && wasFitted(estimates, exp.name, exp.role);
+    data.push({ experiment: exp.name, source: isNew ? 'new log' : exp.role, inSample, file: exp.fileAsWritten, sha256: d.sha256, rows: d.time.length });
     noteStartValues(model, exp.name, values, options.overrides ?? {}, warnings);
     const p = parameterVector(compiled, index, { ...values, ...(options.overrides ?? {}) });
     for (const spec of model.parameters) {
@@ -76,9 +77,10 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
     model.outputs.forEach((o, j) => {
       const measured = d.outputs[j];
       if (!measured) return;
-      const s: ResidualSeries = { experiment: exp.name, role: 'validation', output: o.name, unit: o.unit, time: d.time, measured, simulated: sim.outputs[j] };
+      const s: ResidualSeries = { experiment: exp.name, role: inSample ? 'fit' : 'validation', output: o.name, unit: o.unit, time: d.time, measured, simulated: sim.outputs[j] };
       series.push(s);
       const score = scoreSeries(measured, sim.outputs[j]);
+      if (score.constantValue !== undefined) warnings.push(constantOutputWarning(o.name, exp.name, withUnit(score.constantValue, o.unit)));
       const diag = residualDiagnostics(s, model.inputs.map((inp, k) => ({ name: inp.name, values: d.inputs[k] })), { timeUnit: model.isStatic ? undefined : model.timeUnit });
       outputs.push({
         experiment: exp.name,
@@ -89,6 +91,7 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
         rmse: score.rmse,
         nrmse: score.nrmse,
         r2: score.r2,
+        inSample,
         whiteness: diag.whiteness,
         verdict: diag.verdict,
         correlatedUpTo: diag.correlatedUpTo,
@@ -114,8 +117,30 @@ export function validateModel(options: ValidateOptions): ValidateOutcome {
     parameters: used,
     warnings,
   };
+  if (dataChanges.length) result.dataChanges = dataChanges;
   const noise = Object.fromEntries(Object.entries(estimates.noise).map(([k, v]) => [k, { sigma: v.sigma, estimated: v.estimated }]));
   return { result, series, noise };
+}
+
+/**
+ * The estimates must belong to this model file and to the data files as they are now; a mismatch
+ * accepted with --force becomes a warning, and each changed data file is returned with both hashes.
+ */
+function checkVersions(estimates: EstimatesFile, model: Model, options: ValidateOptions, warnings: string[]): DataChange[] {
+  const mismatch = checkModelVersion(estimates, model, { estimatesLabel: options.estimatesFile, modelLabel: options.modelFile, force: options.force });
+  if (mismatch) warnings.push(`${mismatch.warning}; validated anyway because of --force`);
+  const changed = checkDataVersions(estimates, model, { estimatesLabel: options.estimatesFile, force: options.force });
+  for (const c of changed) warnings.push(`${c.warning}; validated anyway because of --force`);
+  return changed.map((c) => ({ experiment: c.experiment, file: c.file, recordedSha256: c.recorded, currentSha256: c.current }));
+}
+
+/**
+ * Whether the estimates were fitted to an experiment: by the record of the fit in estimates.yaml
+ * (each data file with its role), or by the model file's role when the record has none.
+ */
+function wasFitted(estimates: EstimatesFile, experiment: string, role: 'fit' | 'validation'): boolean {
+  const recorded = estimates.data.find((d) => d.experiment === experiment);
+  return recorded ? recorded.role === 'fit' : role === 'fit';
 }
 
 /** Which experiments to score: named ones, a new log (added to a copy of the model), or every validation experiment. */

@@ -13,6 +13,7 @@ import { formatHtmlNumber, whitenessLabel, withHtmlUnit } from '../presentation/
 import type { ShownOutput } from '../reports/html/output-diagnostics.js';
 import { pageHead } from '../reports/html/page-head.js';
 import type { ValidationResult } from './validation-result.js';
+import { sampleClause } from './validation-report.js';
 
 /** Noise levels from the estimates, to show beside the RMSE (output -> sigma, estimated?). */
 export type NoiseLevels = Record<string, { sigma: number; estimated: boolean }>;
@@ -25,7 +26,7 @@ export async function renderValidationReport(result: ValidationResult, series: r
       experiment: s.experiment,
       output: s.output,
       unit: s.unit,
-      role: 'validation',
+      role: s.role,
       samples: score?.samples ?? d.samples,
       missing: score?.missing ?? 0,
       sigma: noise[s.output]?.sigma ?? NaN,
@@ -45,12 +46,13 @@ export async function renderValidationReport(result: ValidationResult, series: r
     version: result.version,
     timeUnit: result.timeUnit,
     outputs: shown.map((s) => s.result),
-    experiments: result.data.map((d) => ({ name: d.experiment, role: 'validation' as const, file: d.file, sha256: d.sha256, rows: d.rows })),
+    experiments: result.data.map((d) => ({ name: d.experiment, role: d.inSample ? ('fit' as const) : ('validation' as const), file: d.file, sha256: d.sha256, rows: d.rows })),
   } as unknown as FitResult;
 
   const rows = result.outputs.map(
     (o) => html`<tr><td>${o.experiment}</td><td>${o.output}</td><td class="num">${o.samples}${o.missing ? ` (${o.missing} missing)` : ''}</td><td class="num">${withHtmlUnit(o.rmse, o.unit)}</td><td class="num">${formatHtmlNumber(o.nrmse, 3)}</td><td class="num">${formatHtmlNumber(o.r2, 4)}</td><td>${whitenessLabel(o.whiteness)}</td></tr>`,
   );
+  const anyInSample = result.data.some((d) => d.inSample);
   const page = html`${pageHead(`${result.model.name}: validation report`, result.version)}
 <body>
 <header class="top">
@@ -65,12 +67,14 @@ export async function renderValidationReport(result: ValidationResult, series: r
 <li>Follow the codes, standards and licensed engineering practice that apply where the results are used; this report does not replace them.</li>
 </ul>
 </aside>
-<section id="quality"><h2>Scores on data the model was not fitted to</h2>
+<section id="quality"><h2>${anyInSample ? 'Scores, in-sample where the model was fitted to the data' : 'Scores on data the model was not fitted to'}</h2>
+${anyInSample ? html`<p class="note">Validation of ${result.model.name} ${sampleClause(result)}.</p>` : ''}
 <table><thead><tr><th>experiment</th><th>output</th><th>samples</th><th>RMSE</th><th>NRMSE</th><th>R²</th><th>residuals</th></tr></thead><tbody>${rows}</tbody></table>
 <p class="note">NRMSE: RMSE over the standard deviation of the measurement (0 is perfect, 1 is no better than the mean of the log).</p>
 ${result.warnings.length ? html`<ul class="warnings">${result.warnings.map((w) => html`<li>${w}</li>`)}</ul>` : ''}
 </section>
-${await experimentsSection(view, shown, 'validation')}
+${anyInSample ? html`<p class="note">The experiments below under “Fit experiments” are the data the estimates were fitted to (in-sample).</p>${await experimentsSection(view, shown, 'fit')}` : ''}
+${result.data.some((d) => !d.inSample) ? await experimentsSection(view, shown, 'validation') : ''}
 <section id="provenance"><h2>Provenance</h2>
 <p>model sha256 <code>${result.model.sha256}</code>; the estimates were made for sha256 <code>${result.estimates.modelSha256}</code>.</p>
 <ul>${result.data.map((d) => html`<li>${d.experiment} (${d.source}): <code>${d.file}</code>, ${d.rows} rows, sha256 <code>${d.sha256}</code></li>`)}</ul>

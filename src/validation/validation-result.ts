@@ -16,6 +16,11 @@ export interface ValidationOutputScore {
   /** RMSE over the standard deviation of the measurement (dimensionless; 0 is perfect, 1 is no better than the mean). */
   nrmse: number;
   r2: number;
+  /**
+   * True when the estimates were fitted to this experiment's data: the score is then in-sample and
+   * says how well the fit matched, not how well the model predicts data it has not seen.
+   */
+  inSample: boolean;
   whiteness?: WhitenessResult;
   /** In words: are the residuals plain noise, or does the model miss something? */
   verdict: string;
@@ -26,9 +31,21 @@ export interface ValidationData {
   experiment: string;
   /** `fit` or `validation` for an experiment of the model file; `new log` for --data. */
   source: 'fit' | 'validation' | 'new log';
+  /** The estimates were fitted to these data (see ValidationOutputScore.inSample). */
+  inSample: boolean;
   file: string;
   sha256: string;
   rows: number;
+}
+
+/** A data file accepted with --force although it is not the one the estimates were made from. */
+export interface DataChange {
+  experiment: string;
+  file: string;
+  /** The SHA-256 estimates.yaml records for the file. */
+  recordedSha256: string;
+  /** The SHA-256 of the file as validated (or why it could not be read). */
+  currentSha256: string;
 }
 
 export interface ValidationResult {
@@ -46,4 +63,6 @@ export interface ValidationResult {
   /** Values used for the parameters, by name (`name@experiment` for per-experiment copies). */
   parameters: Record<string, number>;
   warnings: string[];
+  /** Present when --force let changed data files through: both hashes of each. */
+  dataChanges?: DataChange[];
 }

@@ -12,7 +12,7 @@ import { UserError } from '../errors.js';
 import { loadModel } from '../model/load/index.js';
 import type { Model } from '../model/types.js';
 import { writeFileAtomic } from '../files/atomic-file.js';
-import { checkModelVersion, readEstimates } from '../files/estimates-file.js';
+import { checkDataVersions, checkModelVersion, readEstimates, type DataVersionMismatch } from '../files/estimates-file.js';
 import { inputsOfRun, outputFileProblem } from '../files/input-guard.js';
 import { TOOL, VERSION } from '../version.js';
 import { freezeModelText, type FreezeSummary } from '../handoff/freeze-document.js';
@@ -32,7 +32,7 @@ export interface FreezeOptions {
    */
   output?: string;
   format?: FreezeFormat;
-  /** Freeze even when the estimates were made for a model file with another SHA-256. */
+  /** Freeze even when the estimates were made for a model file, or from data files, with another SHA-256. */
   force?: boolean;
   /** Replace an existing output file. */
   overwrite?: boolean;
@@ -51,6 +51,8 @@ export interface FreezeOutcome {
   rows?: number;
   /** Present when `force` let a hash mismatch through. */
   hashMismatch?: { model: string; estimates: string };
+  /** Present when `force` let changed data files through: both hashes of each. */
+  dataChanges?: { experiment: string; file: string; recordedSha256: string; currentSha256: string }[];
   warnings: string[];
 }
 
@@ -70,6 +72,8 @@ export function prepareFreeze(options: FreezeOptions): { text: string; outcome: 
   const mismatch = checkModelVersion(estimates, model, { estimatesLabel: options.estimatesFile, modelLabel: options.modelFile, force: options.force });
   const hashMismatch = mismatch && { model: mismatch.model, estimates: mismatch.estimates };
   if (mismatch) warnings.push(`${mismatch.warning}; frozen anyway because of --force`);
+  const dataChanges = checkDataVersions(estimates, model, { estimatesLabel: options.estimatesFile, force: options.force });
+  for (const c of dataChanges) warnings.push(`${c.warning}; frozen anyway because of --force`);
   if (estimates.fit.status && estimates.fit.status !== 'converged') {
     warnings.push(`the fit behind these estimates ended with status "${estimates.fit.status}"${estimates.fit.message ? ` (${estimates.fit.message})` : ''}`);
   }
@@ -77,7 +81,7 @@ export function prepareFreeze(options: FreezeOptions): { text: string; outcome: 
   if (format !== 'yaml') {
     const rows = parameterTable(estimates);
     const text = format === 'json' ? parameterTableJson(rows) : parameterTableCsv(rows);
-    return { text, outcome: { output, format, rows: rows.length, hashMismatch, warnings } };
+    return { text, outcome: { output, format, rows: rows.length, hashMismatch, ...changes(dataChanges), warnings } };
   }
 
   const date = options.date ?? new Date().toISOString();
@@ -87,11 +91,18 @@ export function prepareFreeze(options: FreezeOptions): { text: string; outcome: 
     estimatesSha256: sha256Hex(estimatesBytes),
     date,
     toolVersion: `${VERSION}`,
+    changedData: Object.fromEntries(dataChanges.map((c) => [c.experiment, c.current])),
   });
   const withWarning = hashMismatch
     ? `# WARNING (${TOOL} freeze --force): the estimates were made for a model file with sha256\n# ${hashMismatch.estimates}; the model frozen here had sha256 ${hashMismatch.model}.\n${text}`
     : text;
-  return { text: withWarning, outcome: { output, format, summary, hashMismatch, warnings } };
+  return { text: withWarning, outcome: { output, format, summary, hashMismatch, ...changes(dataChanges), warnings } };
+}
+
+/** The accepted data changes for the outcome, both hashes each; nothing when there are none. */
+function changes(mismatches: readonly DataVersionMismatch[]): Pick<FreezeOutcome, 'dataChanges'> {
+  if (!mismatches.length) return {};
+  return { dataChanges: mismatches.map((m) => ({ experiment: m.experiment, file: m.file, recordedSha256: m.recorded, currentSha256: m.current })) };
 }
 
 /** `rigcal freeze` as a library verb: prepare, then write the output atomically. */

@@ -102,6 +102,7 @@ describe('rank through the command line on static candidates', () => {
   // A calibration curve of our own: y = 2 x + 0.5 x^2 plus seeded noise of 0.01; the straight line
   // misses the curvature. Static models fit in milliseconds, so the command itself runs here.
   let dir: string;
+  let model: (name: string, expr: string, extra: string) => string;
   beforeAll(() => {
     dir = mkdtempSync(path.join(tmpdir(), 'rigcal-static-'));
     const noise = normalDeviates(7);
@@ -111,7 +112,7 @@ describe('rank through the command line on static candidates', () => {
       rows.push(`${x},${2 * x + 0.5 * x * x + 0.01 * noise()}`);
     }
     writeFileSync(path.join(dir, 'curve.csv'), `${rows.join('\n')}\n`);
-    const model = (name: string, expr: string, extra: string) => `# Synthetic calibration curve of our own (test data).
+    model = (name: string, expr: string, extra: string) => `# Synthetic calibration curve of our own (test data).
 format: 1
 name: ${name}
 inputs:
@@ -145,6 +146,15 @@ experiments:
     const bad = await cli(['rank', 'line.yaml', 'parabola.yaml', '--starts', '0'], dir);
     expect(bad.code).toBe(2);
     expect(bad.err).toMatch(/--starts must be an integer of at least 1/);
+  });
+
+  it('exits 3 and names the candidate when a fit stops on its iteration limit', async () => {
+    // Exit codes as documented in the README (Commands): 3 = stopped before converging.
+    // A curve nonlinear in its parameters: one iteration from a = 1, c = 0 cannot converge.
+    writeFileSync(path.join(dir, 'exponential.yaml'), model('exponential', 'a*exp(c*x) - a', '  c: { free: [-10, 10], start: 0.1 }\n'));
+    const r = await cli(['rank', 'exponential.yaml', 'line.yaml', '--max-iterations', '1'], dir);
+    expect(r.code, r.err).toBe(3);
+    expect(r.out).toMatch(/^ {2}exponential: the fit stopped on its iteration limit before converging: .*exit code 3/m);
   });
 
   it('prints the table by default', async () => {

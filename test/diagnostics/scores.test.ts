@@ -28,6 +28,20 @@ describe('scoreSeries', () => {
     expect(s.rmse).toBeGreaterThan(0);
   });
 
+  it('finds a constant log constant even when the rounding of its mean leaves SST above zero', () => {
+    // 61 samples of 0.1: the summed mean is 0.09999999999999991, SST about 6e-31 > 0, and
+    // 1 - SSE/SST would come out near -1e26. R^2 is not defined without variance (definition above).
+    const measured = new Array(61).fill(0.1);
+    const simulated = measured.map((_, i) => 0.1 + (i % 2 ? 1e-3 : -1e-3));
+    const s = scoreSeries(measured, simulated);
+    expect(s.r2).toBeNaN();
+    expect(s.nrmse).toBeNaN();
+    expect(s.constantValue).toBe(0.1);
+    // RMSE = sqrt(SSE/n) is still defined: every residual is 1e-3 in size.
+    expect(s.rmse).toBeCloseTo(1e-3, 15);
+    expect(scoreSeries([1, 2, 3, 4], [1, 2, 3, 5]).constantValue).toBeUndefined();
+  });
+
   it('residualOf is measured - simulated with NaN where either is missing', () => {
     expect(Array.from(residualOf([3, NaN, 1], [1, 1, NaN]))).toEqual([2, NaN, NaN]);
   });

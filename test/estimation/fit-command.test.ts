@@ -119,6 +119,21 @@ describe('rigcal fit', () => {
     expect(existsSync(join(d2, 'blow-up-fit'))).toBe(false);
   });
 
+  it('exit 3 when the fit stops on its iteration limit: the first line says so, fit.json keeps status "stopped"', async () => {
+    // The documented exit codes (README, Commands): 0 converged, 1 ran but failed, 2 input wrong, 3 stopped.
+    // One iteration cannot converge from the model's start values (the converged fit above needs several).
+    const folder = join(dir, 'one-iteration');
+    const c = io(dir);
+    expect(await runCli(['fit', model, '-o', folder, '--max-iterations', '1'], c.io)).toBe(3);
+    expect(c.out().split('\n')[0]).toMatch(/^fit of thermal-test: STOPPED BEFORE CONVERGING \(iteration limit 1 reached before convergence[;)].*not an optimum \(exit code 3\)/);
+    const fit = JSON.parse(readFileSync(join(folder, 'fit.json'), 'utf8'));
+    expect(fit.status).toBe('stopped');
+    expect(fit.stopReason).toBe('iterations');
+    const j = io(dir);
+    expect(await runCli(['fit', model, '-o', join(dir, 'one-iteration-json'), '--max-iterations', '1', '--json'], j.io)).toBe(3);
+    expect(JSON.parse(j.out()).status).toBe('stopped');
+  });
+
   it('simulate --params reproduces the fitted outputs', async () => {
     const folder = join(dir, 'rt');
     expect(await runCli(['fit', model, '-o', folder, '--quiet'], io(dir).io)).toBe(0);

@@ -2,6 +2,7 @@
  * The one home of files in and out (src/files): the CSV writer's quoting, the rule that an output is
  * never an input, and the one policy for estimates of another model version.
  */
+import { createHash } from 'node:crypto';
 import { mkdtempSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -9,7 +10,7 @@ import { parse } from 'csv-parse/sync';
 import { afterAll, describe, expect, it } from 'vitest';
 import { UserError } from '../../src/errors.js';
 import { renderCsv } from '../../src/files/csv.js';
-import { checkModelVersion, type EstimatesFile } from '../../src/files/estimates-file.js';
+import { checkDataVersions, checkModelVersion, readEstimates, type EstimatesFile } from '../../src/files/estimates-file.js';
 import { outputFileProblem } from '../../src/files/input-guard.js';
 import type { Model } from '../../src/model/types.js';
 
@@ -70,5 +71,67 @@ describe('whether estimates belong to this model version (common practice, no so
     expect(odd?.estimates).toBe('(not a SHA-256)');
     expect(odd?.warning).not.toMatch(/\n/);
     expect(odd?.warning).toMatch(/different version of m\.yaml/);
+  });
+});
+
+describe('whether the data files are those the estimates were made from (common practice, no source: same SHA-256 of each log)', () => {
+  const dir = mkdtempSync(join(tmpdir(), 'rigcal-data-version-'));
+  const log = join(dir, 'log.csv');
+  writeFileSync(log, 't,y\n0,1\n1,2\n');
+  // SHA-256 of the bytes above, computed independently (sha256sum of the same 16 bytes).
+  const recorded = createHash('sha256').update('t,y\n0,1\n1,2\n').digest('hex');
+  const model = { experiments: [{ name: 'run', file: log, fileAsWritten: 'log.csv' }] } as unknown as Model;
+  const estimates = (sha256: string) => ({ data: [{ experiment: 'run', role: 'fit', file: 'log.csv', sha256 }] }) as EstimatesFile;
+
+  it('accepts the log as it was', () => {
+    expect(checkDataVersions(estimates(recorded), model, { estimatesLabel: 'est.yaml' })).toEqual([]);
+  });
+
+  it('refuses an edited log naming experiment, file, both hashes and the fix; --force returns both hashes', () => {
+    writeFileSync(log, 't,y\n0,1\n1,2.5\n');
+    const now = createHash('sha256').update('t,y\n0,1\n1,2.5\n').digest('hex');
+    expect(() => checkDataVersions(estimates(recorded), model, { estimatesLabel: 'est.yaml' })).toThrow(UserError);
+    try {
+      checkDataVersions(estimates(recorded), model, { estimatesLabel: 'est.yaml' });
+    } catch (err) {
+      const [p] = (err as UserError).problems;
+      expect(p.where.file).toBe('log.csv');
+      expect(p.what).toContain(`experiment run changed since the fit: est.yaml records sha256 ${recorded}`);
+      expect(p.what).toContain(`it now has sha256 ${now}`);
+      expect(p.fix).toMatch(/--force/);
+    }
+    expect(checkDataVersions(estimates(recorded), model, { estimatesLabel: 'est.yaml', force: true })).toMatchObject([{ experiment: 'run', file: 'log.csv', recorded, current: now }]);
+  });
+});
+
+describe('an estimates file that is no estimates file', () => {
+  const dir = mkdtempSync(join(tmpdir(), 'rigcal-estimates-'));
+
+  it('refuses a YAML alias bomb with a located UserError instead of expanding it', () => {
+    const file = join(dir, 'bomb.yaml');
+    // Nine-fold nested aliases (the "billion laughs" shape): 9^5 strings if expanded.
+    const levels = ['a: &a ["x","x","x","x","x","x","x","x","x"]'];
+    for (const [prev, next] of [['a', 'b'], ['b', 'c'], ['c', 'd'], ['d', 'e']]) levels.push(`${next}: &${next} [${Array(9).fill(`*${prev}`).join(',')}]`);
+    writeFileSync(file, `tool: rigcal\n${levels.join('\n')}\nparameters: { K: { value: 1 } }\n`);
+    expect(() => readEstimates(file)).toThrow(UserError);
+    expect(() => readEstimates(file)).toThrow(/aliases .* expand to far more data/);
+    try {
+      readEstimates(file);
+    } catch (err) {
+      expect((err as UserError).problems[0].where.file).toBe(file);
+    }
+  });
+
+  it('refuses a file of two YAML documents, saying so', () => {
+    const file = join(dir, 'two.yaml');
+    writeFileSync(file, 'tool: rigcal\nparameters: { K: { value: 1 } }\n---\ntool: rigcal\n');
+    expect(() => readEstimates(file)).toThrow(UserError);
+    try {
+      readEstimates(file);
+    } catch (err) {
+      const [p] = (err as UserError).problems;
+      expect(p.where).toMatchObject({ file, line: 3 });
+      expect(p.what).toMatch(/more than one YAML document/);
+    }
   });
 });

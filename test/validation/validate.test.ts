@@ -121,6 +121,27 @@ describe('validate on a synthetic rig', () => {
     expect(result.outputs[0].rmse).toBeLessThan(1.15 * NOISE_MM * 1e-3);
   });
 
+  it('calls a score on a fit experiment in-sample, in the table, validation.json and report.html', async () => {
+    // A score on the data the estimates were fitted to measures the fit, not prediction
+    // (common practice, no source): it must never be presented as "never fitted".
+    const r = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '-e', 'bump', '-e', 'held-out', '-o', 'val-in-sample'], dir);
+    expect(r.code, r.err).toBe(0);
+    const first = r.out.split('\n')[0];
+    expect(first).toMatch(/IN-SAMPLE score on bump: the estimates were fitted to these data/);
+    expect(first).toMatch(/never fitted to held-out\)/);
+    const saved = JSON.parse(readFileSync(path.join(dir, 'val-in-sample', 'validation.json'), 'utf8')) as ValidationResult;
+    expect(saved.data.map((d) => [d.experiment, d.inSample])).toEqual([['bump', true], ['held-out', false]]);
+    expect(saved.outputs.map((o) => [o.experiment, o.inSample])).toEqual([['bump', true], ['held-out', false]]);
+    const page = readFileSync(path.join(dir, 'val-in-sample', 'report.html'), 'utf8');
+    expect(page).toMatch(/IN-SAMPLE score on bump/);
+    expect(page).toContain('<h2>Fit experiments</h2>');
+    // The "not used to estimate" paragraph belongs to held-out only: one validation section.
+    expect((page.match(/These logs were not used to estimate the parameters/g) ?? []).length).toBe(1);
+    const only = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '-e', 'shake', '-o', 'val-shake'], dir);
+    expect(only.out).not.toMatch(/never fitted/);
+    expect(readFileSync(path.join(dir, 'val-shake', 'report.html'), 'utf8')).not.toMatch(/not used to estimate|not fitted to/);
+  });
+
   it('names a wrong experiment and refuses a foreign output folder', async () => {
     const r = await cli(['validate', 'right.yaml', '--params', 'right.yaml-fit/estimates.yaml', '-e', 'bumpp'], dir);
     expect(r.code).toBe(2);

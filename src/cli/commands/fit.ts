@@ -69,7 +69,8 @@ export function register(program: Command, ctx: CommandContext): void {
         if (showProgress && lastLine) io.stderr('\n');
         if (opts.json) io.stdout(renderFitJson(outcome.result));
         else io.stdout(renderFitSummary(outcome.result, folder));
-        return outcome.result.status === 'failed' ? 1 : 0;
+        // 3: estimates exist but are not a converged optimum (a script must be able to tell).
+        return outcome.result.status === 'failed' ? 1 : outcome.result.status === 'stopped' ? 3 : 0;
       }),
     );
 }

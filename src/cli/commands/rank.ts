@@ -50,7 +50,9 @@ AICc and BIC count the free parameters plus the estimated noise levels.`,
           onModel: showProgress ? (name, i, n) => ctx.io.stderr(`fitting ${name} (${i + 1} of ${n})\n`) : undefined,
         });
         ctx.io.stdout(opts.json ? toJson(rankJson(outcome)) : rankText(outcome));
-        return outcome.failures.length ? 1 : 0;
+        // 1 when a candidate could not be fitted; else 3 when one stopped before converging (the text names it).
+        if (outcome.failures.length) return 1;
+        return outcome.models.some((m) => m.status === 'stopped') ? 3 : 0;
       }),
     );
 }

@@ -44,6 +44,7 @@ export function fitOnce(model: Model, compiled: CompiledModel, data: readonly Ex
     ...statisticsWarnings,
     ...(hint ? [hint.warning] : []),
     ...validationWarnings,
+    ...scored.warnings,
   ];
   const result = assembleResult(setup, solved, estimates, statistics, scored.outputs, warnings);
   result.wallSeconds = now() - t0;

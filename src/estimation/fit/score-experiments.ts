@@ -6,6 +6,7 @@
 import type { ExperimentData } from '../../data/types.js';
 import type { ResidualSeries } from '../../diagnostics/types.js';
 import { scoreSeries } from '../../diagnostics/scores.js';
+import { constantOutputWarning, withUnit } from '../../presentation/index.js';
 import type { SimulationResult } from '../../simulation/types.js';
 import type { OutputResult } from './fit-result.js';
 import type { FitSetup } from './fit-setup.js';
@@ -13,11 +14,13 @@ import type { FitSetup } from './fit-setup.js';
 export interface ScoredExperiments {
   residuals: ResidualSeries[];
   outputs: OutputResult[];
+  /** Scores that need a word (a constant measurement has no R^2). */
+  warnings: string[];
 }
 
 /** Scores of the fit experiments at the solver's last point (whose plain simulations the problem usually keeps). */
 export function scoreFitExperiments(setup: FitSetup, theta: readonly number[]): ScoredExperiments {
-  const scored: ScoredExperiments = { residuals: [], outputs: [] };
+  const scored: ScoredExperiments = { residuals: [], outputs: [], warnings: [] };
   const sims = setup.problem.simulateAll(theta);
   setup.fitData.forEach((d, i) => scoreExperiment(setup, d, sims[i], scored));
   return scored;
@@ -56,6 +59,7 @@ function scoreExperiment(setup: FitSetup, d: ExperimentData, res: SimulationResu
     const series: ResidualSeries = { experiment: d.experiment.name, role: d.experiment.role, output: o.name, unit: o.unit, time: d.time, measured: meas, simulated: res.outputs[j] };
     scored.residuals.push(series);
     const q = scoreSeries(meas, res.outputs[j]);
+    if (q.constantValue !== undefined) scored.warnings.push(constantOutputWarning(o.name, d.experiment.name, withUnit(q.constantValue, o.unit)));
     const row: OutputResult = {
       experiment: d.experiment.name,
       output: o.name,

@@ -17,8 +17,10 @@ export function outputForDisplay(fit: FitResult, series: ResidualSeries): ShownO
   const residual = residualOf(series.measured, series.simulated);
   const stored = fit.outputs.find((o) => o.experiment === series.experiment && o.output === series.output);
   const score = scoreSeries(series.measured, series.simulated);
+  // fit.json stores an undefined R^2 or NRMSE (constant measurement) as null: shown as not defined
+  // (n/a), as on the first rendering, not as missing.
   const result: OutputResult = stored
-    ? { ...stored }
+    ? { ...stored, nrmse: stored.nrmse ?? score.nrmse, r2: stored.r2 ?? score.r2 }
     : {
         experiment: series.experiment,
         output: series.output,
