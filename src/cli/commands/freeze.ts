@@ -22,7 +22,7 @@ export function register(program: Command, ctx: CommandContext): void {
     .requiredOption('--params <file>', 'estimates.yaml written by `rigcal fit`')
     .requiredOption('-o, --output <file>', 'output file (never the model file itself); - for standard output')
     .addOption(new Option('--format <format>', 'yaml: calibrated model file; json or csv: the parameter table alone').choices(['yaml', 'json', 'csv']).default('yaml'))
-    .option('--force', 'freeze even though the estimates were made for another version of the model file (different SHA-256)')
+    .option('--force', 'freeze even though the estimates were made for another version of the model file or of a data file (different SHA-256; both are then recorded)')
     .option('--overwrite', 'replace the output file when it exists');
   mannerOptions(command, 'print what was written as JSON (output, format, what was fixed, warnings)')
     .addHelpText(

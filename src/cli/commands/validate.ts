@@ -28,7 +28,7 @@ export function register(program: Command, ctx: CommandContext): void {
     .option('--time-unit <unit>', 'unit of the new log\'s time column (with --data; default: as in the model\'s first experiment)')
     .option('-o, --output <dir>', 'folder for validation.json, residuals.csv and report.html (default ./<model name>-validate/)')
     .option('--set <name=value>', 'a parameter value for this run (wins over the estimates), e.g. a per-experiment initial value of a new log', collect)
-    .option('--force', 'validate even though the estimates were made for another version of the model file');
+    .option('--force', 'validate even though the estimates were made for another version of the model file or of a data file (both SHA-256 are then recorded)');
   mannerOptions(command, 'print validation.json to standard output instead of the table')
     .addHelpText(
       'after',
