@@ -13,7 +13,7 @@
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { integrateRk4 } from './helpers/reference-rk4.js';
 import { cli, grid, normal, removeTempDirs, tempDir } from './helpers/rig-kit.js';
 
@@ -123,4 +123,39 @@ describe('1. control characters in units reach `fit`\'s tables escaped', () => {
     expect(run.out + run.err).not.toMatch(ACTS_ON_TERMINAL);
     expect(run.out).toContain(h.shownAs);
   }, 60_000);
+});
+
+/** The log with data row `row` (0-based, after the header) replaced by `text`. */
+const withRow = (row: number, text: string) => log().split('\n').map((l, i) => (i === row + 1 ? text : l)).join('\n');
+
+describe('2. a 400 kB cell is answered in under 1 s with its line (every pattern on input is linear)', () => {
+  const root = tempDir('hostile-cells');
+  const digits = '7'.repeat(400_000);
+  // The first run of the CLI in a process loads the model language and the unit library: not the cell's time.
+  beforeAll(async () => {
+    const dir = join(root, 'warm-up');
+    mkdirSync(dir);
+    writeFileSync(join(dir, 'model.yaml'), model({}));
+    writeFileSync(join(dir, 'data.csv'), log());
+    expect((await cli(['check', 'model.yaml'], dir)).code).toBe(0);
+  }, 30_000);
+  const cells: [string, string, RegExp][] = [
+    ['digits and a letter in an output column', `0.40,0,${digits}x`, /data\.csv:22.*"pos".*not a number/],
+    ['digits, a point, digits and a dangling exponent', `0.40,0,${digits}.${digits}e`, /data\.csv:22.*not a number/],
+    ['a 400 kB number (not finite)', `0.40,0,${digits}`, /data\.csv:22.*not a number/],
+    ['digits and a letter in the time column', `${digits}x,0,0`, /data\.csv:22.*time/],
+    ['digits and a letter in an input column', `0.40,${digits}x,0`, /data\.csv:22.*force/],
+  ];
+  it.each(cells)('%s', async (_label, row, message) => {
+    const dir = join(root, `cell-${cells.findIndex((c) => c[1] === row)}`);
+    mkdirSync(dir);
+    writeFileSync(join(dir, 'model.yaml'), model({}));
+    writeFileSync(join(dir, 'data.csv'), withRow(20, row));
+    const run = await cli(['check', 'model.yaml'], dir);
+    expect(run.code, run.err.slice(0, 2000)).toBe(2);
+    expect(run.err).toMatch(message);
+    expect(run.err.length).toBeLessThan(4000);
+    // Common practice, no source: a check answers at once; the quadratic pattern took 40 s on 200 kB.
+    expect(run.seconds).toBeLessThan(1);
+  }, 30_000);
 });
