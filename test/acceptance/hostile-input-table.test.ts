@@ -159,3 +159,26 @@ describe('2. a 400 kB cell is answered in under 1 s with its line (every pattern
     expect(run.seconds).toBeLessThan(1);
   }, 30_000);
 });
+
+describe('4. a sigma or a logged value whose square is not a normal double: exit 2 with its key or line (IEEE 754 binary64)', () => {
+  const root = tempDir('hostile-squares');
+  const cases: [string, string, string, RegExp][] = [
+    ['sigma: 1e-200 (square underflows to 0)', model({}).replace('column: pos }', 'column: pos, sigma: 1e-200 }'), log(), /model\.yaml:\d+:\d+ \(outputs\.pos\.sigma\): sigma of pos is 1e-200/],
+    ['sigma: 1e200 (square overflows)', model({}).replace('column: pos }', 'column: pos, sigma: 1e200 }'), log(), /\(outputs\.pos\.sigma\): sigma of pos is 1e\+200/],
+    ['an output value of 1e308', model({}), withRow(40, '0.80,1,1e308'), /data\.csv:42: output pos: column "pos" has 1e308, whose square overflows/],
+    ['an output value of -2e154', model({}), withRow(40, '0.80,1,-2e154'), /data\.csv:42: output pos: .*square overflows/],
+    ['an input value of 1e200', model({}), withRow(40, '0.80,1e200,0'), /data\.csv:42: input F: column "force" has 1e200, whose square overflows/],
+  ];
+  it.each(cases)('%s', async (label, modelText, csv, message) => {
+    const dir = join(root, `case-${cases.findIndex((c) => c[0] === label)}`);
+    mkdirSync(dir);
+    writeFileSync(join(dir, 'model.yaml'), modelText);
+    writeFileSync(join(dir, 'data.csv'), csv);
+    for (const verb of ['check', 'fit']) {
+      const run = await cli([verb, 'model.yaml', ...(verb === 'fit' ? ['-o', 'results'] : [])], dir);
+      expect(run.code, run.err.slice(0, 2000)).toBe(2);
+      expect(run.err).toMatch(message);
+      expect(run.err).not.toMatch(/internal error|\n\s+at /);
+    }
+  }, 30_000);
+});

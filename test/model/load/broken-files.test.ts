@@ -371,6 +371,18 @@ const cases: Case[] = [
     key: 'outputs.pos.sigma', line: 17, words: ['sigma of pos must be above 0'],
   },
   {
+    // IEEE 754 binary64: the smallest normal double is 2^-1022, so a sigma of 1e-200 has a square of 0.
+    name: 'sigma whose square underflows',
+    text: spring('column: position }', 'column: position, sigma: 1e-200 }'),
+    key: 'outputs.pos.sigma', line: 17, words: ['sigma of pos is 1e-200', 'not a normal double', '1.5e-154 to 1.3e+154'],
+  },
+  {
+    // IEEE 754 binary64: the largest double is about 1.8e308, so a sigma of 1e160 has an infinite square.
+    name: 'sigma whose square overflows',
+    text: spring('column: position }', 'column: position, sigma: 1e160 }'),
+    key: 'outputs.pos.sigma', line: 17, words: ['sigma of pos is 1e+160', 'not a normal double'],
+  },
+  {
     name: 'window in reverse order',
     text: `${SPRING}    window: [5, 1]\n`,
     key: 'experiments[0].window', line: 21, words: ['from < to', '[5, 1]'],
