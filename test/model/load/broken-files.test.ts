@@ -236,6 +236,23 @@ const cases: Case[] = [
     line: 5, words: ['YAML'],
   },
   {
+    // YAML 1.2.2, section 9.2: `---` starts a new document of the stream.
+    name: 'two YAML documents: the `---` line is named',
+    text: `${SPRING}---\nformat: 1\n`,
+    line: SPRING.split('\n').length, words: ['the file holds 2 YAML documents', 'a model file is one document', `remove the \`---\` line at line ${SPRING.split('\n').length}`],
+  },
+  {
+    name: 'three YAML documents, the first with its own `---`',
+    text: `---\n${SPRING}---\nb: 2\n---\nc: 3\n`,
+    line: SPRING.split('\n').length + 1, words: ['the file holds 3 YAML documents', `remove the \`---\` line at line ${SPRING.split('\n').length + 1}`],
+  },
+  {
+    // YAML 1.2.2, section 9.1.2: `...` ends a document; whatever follows is another one.
+    name: 'a document after `...`',
+    text: `${SPRING}...\nb: 2\n`,
+    line: SPRING.split('\n').length + 1, words: ['the file holds 2 YAML documents', 'remove the `...` line'],
+  },
+  {
     name: 'duplicate key',
     text: spring('  m: { fixed: 2.5, unit: kg }', '  m: { fixed: 2.5, unit: kg }\n  m: 3'),
     line: 10, words: ['appears twice'],
