@@ -182,3 +182,21 @@ describe('4. a sigma or a logged value whose square is not a normal double: exit
     }
   }, 30_000);
 });
+
+describe('3. unit text composed through a chain of defines stays bounded', () => {
+  const root = tempDir('hostile-defines');
+  // d1 = x*x, d(i) = d(i-1)*d(i-1): the composed unit text doubles at every link (2^28 factors of m).
+  const chain = `define:\n  d1: x*x\n${Array.from({ length: 27 }, (_, i) => `  d${i + 2}: d${i + 1}*d${i + 1}\n`).join('')}`;
+  it('28 defines: check answers at once, the mismatch names the key and shows the SI form', async () => {
+    const dir = join(root, 'chain');
+    mkdirSync(dir);
+    writeFileSync(join(dir, 'model.yaml'), model({}).replace('equations:', `${chain}equations:`).replace('expr: x,', 'expr: x + d28,'));
+    writeFileSync(join(dir, 'data.csv'), log());
+    const run = await cli(['check', 'model.yaml'], dir);
+    expect(run.code, run.err.slice(0, 2000)).toBe(2);
+    // 2^28 = 268435456 (the exponent of m after 28 squarings).
+    expect(run.err).toMatch(/model\.yaml:\d+:\d+ \(outputs\.pos\.expr\): .*d28 is m\^268435456; the dimensions differ/);
+    expect(run.err.length).toBeLessThan(4000);
+    expect(run.seconds).toBeLessThan(10);
+  }, 30_000);
+});
