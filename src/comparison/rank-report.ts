@@ -1,5 +1,5 @@
 /** The `rank` result rendered for people (a table and sentences) and for programs (JSON). */
-import { formatCriterion, formatNumber, formatPValueClause, TEXT_MARKS, textTable, whitenessTally } from '../presentation/index.js';
+import { formatCriterion, formatNumber, formatPValueClause, printableLines, TEXT_MARKS, textTable, whitenessTally } from '../presentation/index.js';
 import type { RankedModel } from './rank-fits.js';
 import type { RankOutcome } from '../verbs/rank.js';
 
@@ -69,7 +69,8 @@ export function rankText(r: RankOutcome): string {
     }
   }
   for (const f of r.failures) lines.push(`not ranked: ${f.name} (${f.file}): the fit failed: ${f.message}`);
-  return `${lines.join('\n')}\n`;
+  // Names, files and messages come from the input: made printable (presentation/printable.ts).
+  return printableLines(`${lines.join('\n')}\n`);
 }
 
 function whitenessCell(m: RankedModel): string {

@@ -10,6 +10,7 @@ import type { LogPlan } from './column-plan.js';
 import { GrowableF64, GrowableI32 } from './growable.js';
 import type { HeaderLayout } from './log-header.js';
 import { badCellHint, readCell } from './numbers.js';
+import { LARGEST_SQUARABLE } from '../util/squares.js';
 
 export class RowCollector {
   readonly time = new GrowableF64();
@@ -50,7 +51,7 @@ export class RowCollector {
       const c = readCell(text);
       if (c === null) throw this.badCell(line, p.column, text, `input ${p.name}:`);
       if (Number.isNaN(c)) throw new UserError({ where: { file: this.shown, line }, what: `input column "${p.column}" (input ${p.name}) has a missing value ("${shownText(text)}")`, fix: 'inputs drive the simulation and cannot be missing: fill the gap in the log or window it out' });
-      this.inputs[j].push(p.convert(c));
+      this.inputs[j].push(this.squarable(p.convert(c), line, p.column, text, `input ${p.name}`));
     }
     for (let j = 0; j < outputs.length; j++) {
       const p = outputs[j];
@@ -61,7 +62,7 @@ export class RowCollector {
       if (Number.isNaN(c)) {
         this.missing[j]++;
         this.outputs[j].push(NaN);
-      } else this.outputs[j].push(p.convert(c));
+      } else this.outputs[j].push(this.squarable(p.convert(c), line, p.column, text, `output ${p.name}`));
     }
   }
 
@@ -76,6 +77,16 @@ export class RowCollector {
     if (t > this.lastRowTime) this.lastRowTime = t;
     const win = this.exp.window;
     return win && (t < win[0] || t > win[1]) ? undefined : t;
+  }
+
+  /** `value` (in the model's unit) when its square is finite: a fit and a simulation square them. */
+  private squarable(value: number, line: number, column: string, text: string, role: string): number {
+    if (Math.abs(value) <= LARGEST_SQUARABLE) return value;
+    throw new UserError({
+      where: { file: this.shown, line },
+      what: `${role}: column "${shownText(column)}" has ${shownText(text)}, whose square overflows (values up to ${LARGEST_SQUARABLE.toPrecision(2)} in the model's unit can be used)`,
+      fix: 'check the value; if such magnitudes are real, declare a larger unit for the column (column_unit) and the model',
+    });
   }
 
   private badCell(line: number, column: string, text: string, role: string): UserError {

@@ -203,10 +203,18 @@ function isDigit(c: string | undefined): boolean {
   return c !== undefined && c >= '0' && c <= '9';
 }
 
-/** The token that ends just before `index` (for messages about implicit multiplication). */
+/**
+ * The token that ends just before `index` (for messages about implicit multiplication): a scan back
+ * over spaces and then the word, linear in its length (an unanchored pattern such as
+ * /([A-Za-z0-9_.$]+|\))\s*$/ retries from every start and is quadratic on a long word).
+ */
 function lastWord(text: string, index: number): string {
-  const m = /([A-Za-z0-9_.$]+|\))\s*$/.exec(text.slice(0, index));
-  return m ? m[1] : text.slice(Math.max(0, index - 1), index);
+  let end = index;
+  while (end > 0 && isSpace(text[end - 1])) end--;
+  if (text[end - 1] === ')') return ')';
+  let start = end;
+  while (start > 0 && /[A-Za-z0-9_.$]/.test(text[start - 1])) start--;
+  return start < end ? text.slice(start, end) : text.slice(Math.max(0, index - 1), index);
 }
 
 /** Why a name-like word cannot appear in an expression, or undefined when it may. */

@@ -3,3 +3,4 @@ export * from './numbers.js';
 export * from './text-table.js';
 export * from './nearest-names.js';
 export * from './verdicts.js';
+export * from './printable.js';

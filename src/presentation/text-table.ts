@@ -1,7 +1,10 @@
 /**
  * The one fixed-width text table of the terminal: a header, a rule of dashes under it, columns two
- * spaces apart, trailing spaces trimmed. Numbers may be right-aligned column by column.
+ * spaces apart, trailing spaces trimmed. Numbers may be right-aligned column by column. Every cell
+ * is made printable first (names and units come from the input), which also keeps the columns
+ * aligned: an escaped cell is as wide as it is shown.
  */
+import { printable } from './printable.js';
 
 export interface TableLayout {
   /** Put before every line (check and simulate indent their tables under a heading). */
@@ -10,7 +13,9 @@ export interface TableLayout {
   rightAligned?: readonly number[];
 }
 
-export function textTable(header: readonly string[], rows: readonly (readonly string[])[], layout: TableLayout = {}): string {
+export function textTable(rawHeader: readonly string[], rawRows: readonly (readonly string[])[], layout: TableLayout = {}): string {
+  const header = rawHeader.map(printable);
+  const rows = rawRows.map((r) => r.map(printable));
   const indent = layout.indent ?? '';
   const right = new Set(layout.rightAligned ?? []);
   const widths = header.map((h, j) => Math.max(h.length, ...rows.map((r) => (r[j] ?? '').length)));

@@ -1,11 +1,12 @@
 /**
  * The summary `rigcal check` prints: what the model declares (states, inputs, parameters with
  * bounds, outputs) and what each experiment's log holds (rows, time span, sample interval, missing
- * samples). Plain text, fixed-width columns; every number carries its unit.
+ * samples). Plain text, fixed-width columns; every number carries its unit. Text from the model or
+ * the log is made printable (presentation/printable.ts).
  */
 import type { ExperimentData } from '../data/types.js';
 import type { Model, ParameterSpec } from '../model/types.js';
-import { formatNumber, indentedTable, withUnit } from '../presentation/index.js';
+import { formatNumber, indentedTable, printable, printableLines, withUnit } from '../presentation/index.js';
 
 /** True when not one symbol of the model declares a unit: then dimensional checks are skipped. */
 function noSymbolCarriesUnit(model: Model): boolean {
@@ -126,7 +127,7 @@ export function renderCheckSummary({ model, data }: CheckSummaryInput): string {
     out.push('  none: fit and simulate with data need at least one experiment');
   }
   out.push('', unitCheckLine(model));
-  return out.join('\n') + '\n';
+  return printableLines(out.join('\n') + '\n');
 }
 
 /**
@@ -151,5 +152,5 @@ export function fitReadinessNotes(model: Model, data: (ExperimentData | undefine
       if (logged && m > 0 && m === logged.length) notes.push(`experiment ${model.experiments[k].name}: output ${model.outputs[j].name} has no sample at all (all ${m} missing)`);
     });
   });
-  return notes;
+  return notes.map(printable);
 }

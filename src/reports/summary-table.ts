@@ -3,7 +3,7 @@
  * the results folder. Plain text, fixed-width columns, every number with its unit.
  */
 import type { FitResult, ParameterResult } from '../estimation/fit/fit-result.js';
-import { fitStatusPhrase, formatCriterionFixed, formatDuration, formatNumber, RESIDUAL_VERDICTS, textTable, withUnit } from '../presentation/index.js';
+import { fitStatusPhrase, formatCriterionFixed, formatDuration, formatNumber, printableLines, RESIDUAL_VERDICTS, textTable, withUnit } from '../presentation/index.js';
 
 // Rounded for reading (the full values are in the results folder): estimates and intervals with six
 // significant digits so that a narrow interval stays distinguishable from its estimate, the rest
@@ -75,5 +75,6 @@ export function renderFitSummary(fit: FitResult, resultsFolder?: string): string
     parts.push('');
     parts.push(`results: ${resultsFolder}`);
   }
-  return parts.join('\n') + '\n';
+  // Names, units, messages and the folder come from the input: made printable (presentation/printable.ts).
+  return printableLines(parts.join('\n') + '\n');
 }

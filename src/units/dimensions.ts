@@ -185,9 +185,21 @@ function product(a: Quantity, b: Quantity, sign: 1 | -1): Quantity {
   } else {
     text = b.text === '1' ? a.text : `${a.text === '1' ? '1' : a.text}/${wrap(b.text, '*/ ')}`;
   }
-  const q: Quantity = { dims, scale, text };
+  const q: Quantity = bounded({ dims, scale, text });
   if (a.zero || (sign === 1 && b.zero)) q.zero = true;
   return q;
+}
+
+/**
+ * Characters of a composed unit text kept for messages. Composed texts nest: a chain of defines
+ * that each multiply the one before by itself doubles the text at every link (28 links made 789 MB
+ * and ended the check with "Invalid string length"). Past this size the SI form stands for it,
+ * which is as short as the model has base dimensions.
+ */
+const COMPOSED_TEXT_CHARS = 200;
+
+function bounded(q: Quantity): Quantity {
+  return q.text.length <= COMPOSED_TEXT_CHARS ? q : { ...q, text: formatSI({ ...q, text: '' }) };
 }
 
 function wrap(text: string, chars: string): string {
@@ -210,11 +222,11 @@ function inferPower(baseNode: MathNode, expNode: MathNode, env: UnitEnv, report:
       'use a constant exponent, or make the base dimensionless first (divide by a reference value)');
     return undefined;
   }
-  return {
+  return bounded({
     dims: base.dims.map((p) => p * k),
     scale: Math.pow(base.scale, k),
     text: `${wrap(base.text, '*/^ ')}^${formatNumber(k)}`,
-  };
+  });
 }
 
 /** The unit of a function call, by the unit rule of the function's registry entry. */
@@ -250,7 +262,7 @@ function inferFunction(n: N, env: UnitEnv, report: Reporter): Quantity | undefin
       return { ...acc, offsetUnit: undefined };
     case 'root':
       if (acc.zero) return acc;
-      return { dims: acc.dims.map((p) => p / 2), scale: Math.sqrt(acc.scale), text: `(${acc.text})^0.5` };
+      return bounded({ dims: acc.dims.map((p) => p / 2), scale: Math.sqrt(acc.scale), text: `(${acc.text})^0.5` });
   }
 }
 

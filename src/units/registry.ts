@@ -4,6 +4,7 @@
  */
 import type { MathJsInstance, Unit } from 'mathjs';
 import { all, create } from '../util/mathjs.js';
+import { LIMITS } from '../model/limits.js';
 
 export const unitMath: MathJsInstance = create(all, {});
 
@@ -18,6 +19,8 @@ const ANGLE_INDEX = unitMath.Unit.BASE_DIMENSIONS.indexOf('ANGLE');
  * callers turn that into a Problem naming the key.
  */
 export function parseUnit(text: string): Unit | undefined {
+  // Bounded before any pattern or parser sees it: a unit string from a log or an option may be huge.
+  if (text.length > LIMITS.unitChars) return undefined;
   const s = text.trim();
   // mathjs has no empty unit; a radian stands for "dimensionless" because angles count as 1 here.
   if (s === '' || s === '1') return unitMath.unit('rad');

@@ -5,11 +5,23 @@
  * with its length said.
  */
 
-/** C0 and C1 control characters except tab and line feed, and DEL. */
-const CONTROL = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f]/g;
+/**
+ * C0 and C1 control characters except tab and line feed, DEL, and the invisible characters that
+ * reorder or hide text on a terminal: the bidirectional marks, embeddings, overrides and isolates
+ * (U+061C, U+200E, U+200F, U+202A-U+202E, U+2066-U+2069; Unicode UAX #9) and the line and paragraph
+ * separators (U+2028, U+2029), which some terminals take as a line break.
+ */
+const CONTROL = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f\u061c\u200e\u200f\u2028-\u202e\u2066-\u2069]/g;
+
+const escapeOne = (c: string) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`;
 
 export function escapeControls(text: string): string {
-  return text.replace(CONTROL, (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
+  return text.replace(CONTROL, escapeOne);
+}
+
+/** Every control character escaped, tab and line feed too: text for one line or one table cell. */
+export function escapeAllControls(text: string): string {
+  return escapeControls(text).replace(/[\t\n]/g, escapeOne);
 }
 
 /** `text` fit for a one-line message: no control characters, at most `max` characters shown. */

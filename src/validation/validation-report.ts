@@ -1,5 +1,5 @@
 /** What `validate` prints: a table for the terminal (its results folder: validation-folder.ts). */
-import { formatNumber, textTable, whitenessLabel, withUnit } from '../presentation/index.js';
+import { formatNumber, printableLines, textTable, whitenessLabel, withUnit } from '../presentation/index.js';
 import type { ValidationResult } from './validation-result.js';
 
 export function validationText(result: ValidationResult): string {
@@ -22,7 +22,7 @@ export function validationText(result: ValidationResult): string {
   ];
   for (const o of result.outputs) lines.push(`${o.experiment}/${o.output}: ${o.verdict}`);
   for (const w of result.warnings) lines.push(`warning: ${w}`);
-  return `${lines.join('\n')}\n`;
+  return printableLines(`${lines.join('\n')}\n`);
 }
 
 /**

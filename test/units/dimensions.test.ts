@@ -261,3 +261,16 @@ equations:
     expect(problemsOf(m('min')).problems[0].what).toContain('equation for x');
   });
 });
+
+describe('composed unit text is bounded', () => {
+  it('a product squared 40 times keeps a short text with the right dimension (exponent 2^40)', async () => {
+    const { parse } = await import('../../src/util/mathjs.js');
+    const { inferQuantity, quantityOf } = await import('../../src/units/dimensions.js');
+    const m = quantityOf('m')!;
+    let q = m;
+    for (let i = 0; i < 40; i++) q = inferQuantity(parse('a*a'), () => q, () => undefined)!;
+    expect(q.text.length).toBeLessThan(300);
+    expect(q.dims[m.dims.findIndex((p) => p === 1)]).toBe(2 ** 40);
+    expect(q.text).toMatch(/^m\^\d+(\*m\^\d+)*$/);
+  });
+});

@@ -4,6 +4,7 @@ import { readExpression, type LoadState } from './load-state.js';
 import { NAME_PATTERN } from '../expression-scan.js';
 import type { SourceLocation } from '../../errors.js';
 import { LIMITS } from '../limits.js';
+import { SQUARABLE_RANGE, squareIsNormal } from '../../util/squares.js';
 import { parseExpression } from '../expression-check.js';
 import { at, byKey, deref, isNullish, mapEntries, readNumber, readString, sectionEntries, type YNode } from './yaml-source.js';
 
@@ -45,6 +46,11 @@ export function readOutputs(st: LoadState, node: YNode, path = 'outputs'): Outpu
       if (sigma !== undefined && !(sigma > 0)) {
         ctx.problems.add(at(ctx, deref(ctx, sigmaE.value), sigmaE.path), `sigma of ${e.key} must be above 0, got ${sigma}`,
           'give the measurement noise standard deviation in the output\'s unit, or leave sigma out to estimate it');
+        sigma = undefined;
+      } else if (sigma !== undefined && !squareIsNormal(sigma)) {
+        ctx.problems.add(at(ctx, deref(ctx, sigmaE.value), sigmaE.path),
+          `sigma of ${e.key} is ${sigma}: a fit divides by its square, which is not a normal double (sigma must be from ${SQUARABLE_RANGE})`,
+          'give the measurement noise standard deviation in the output\'s unit, or pick a unit for the output in which its values are nearer 1');
         sigma = undefined;
       }
     }

@@ -8,8 +8,7 @@ import { ProblemList, type SourceLocation } from '../../errors.js';
 import type { ExperimentSpec, ParameterSpec } from '../types.js';
 import { NAME_PATTERN } from '../expression-scan.js';
 import { suggestion } from '../../presentation/nearest-names.js';
-
-const DECIMAL = /^[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?$/;
+import { isDecimalText } from '../../util/decimal.js';
 
 /** Parse `--set` pairs; one UserError naming every bad pair. */
 export function parseOverrides(pairs: readonly string[]): Record<string, number> {
@@ -29,7 +28,7 @@ export function parseOverrides(pairs: readonly string[]): Record<string, number>
       problems.add(where, `"${target}" is not a parameter name (or name@experiment)`, 'write e.g. --set K=0.05 or --set w0@coast-down=1.2');
       continue;
     }
-    if (!DECIMAL.test(text) || !Number.isFinite(Number(text))) {
+    if (!isDecimalText(text) || !Number.isFinite(Number(text))) {
       problems.add(where, `the value "${text}" is not a finite decimal number`, 'write a plain number in the parameter\'s unit, e.g. 0.05 or 3.1e-3');
       continue;
     }

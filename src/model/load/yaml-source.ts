@@ -8,7 +8,7 @@
 import { createHash } from 'node:crypto';
 import { readFileSync, statSync } from 'node:fs';
 import {
-  isAlias, isMap, isPair, isScalar, isSeq, LineCounter, parseDocument, visit,
+  isAlias, isMap, isPair, isScalar, isSeq, LineCounter, parseAllDocuments, parseDocument, visit,
   type Document, type Node as YamlNode, type Scalar,
 } from 'yaml';
 import { ProblemList, UserError, type SourceLocation } from '../../errors.js';
@@ -69,6 +69,22 @@ export interface LoadContext {
  * Parse YAML. Syntax errors, duplicate keys, tags, too many nodes or aliases end the load here
  * (nothing after that point could be trusted), with every such problem listed.
  */
+/**
+ * What is wrong in a file of several YAML documents (the parser's own message names a library
+ * call), with the line where the second document starts: a `---` line, or the line after a `...`.
+ */
+function multipleDocuments(text: string, line: number | undefined): { what: string; fix: string } {
+  // Parsed again only on this error path; the file is already within LIMITS.fileBytes.
+  const count = parseAllDocuments(text).length;
+  const lineText = line === undefined ? '' : (text.split('\n', line)[line - 1] ?? '');
+  const where = line === undefined ? '' : ` at line ${line}`;
+  const what = `the file holds ${count} YAML documents; a model file is one document`;
+  if (lineText.startsWith('---')) {
+    return { what, fix: `remove the \`---\` line${where} (and merge what follows it into the first document, or remove that too)` };
+  }
+  return { what, fix: `the second document starts${where}: remove the \`...\` line before it and merge the two, or remove the second` };
+}
+
 export function parseYaml(file: string, text: string): LoadContext {
   const lineCounter = new LineCounter();
   const doc = parseDocument(text, {
@@ -82,6 +98,11 @@ export function parseYaml(file: string, text: string): LoadContext {
   const ctx: LoadContext = { file, text, doc, lineCounter, problems };
   for (const e of [...doc.errors, ...doc.warnings]) {
     const pos = e.linePos?.[0];
+    if (e.code === 'MULTIPLE_DOCS') {
+      const told = multipleDocuments(text, pos?.line);
+      problems.add({ file, line: pos?.line, column: pos?.col }, told.what, told.fix);
+      continue;
+    }
     const first = e.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '');
     const tooDeep = /call stack/i.test(first);
     const what = e.code === 'DUPLICATE_KEY'

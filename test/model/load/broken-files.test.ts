@@ -236,6 +236,23 @@ const cases: Case[] = [
     line: 5, words: ['YAML'],
   },
   {
+    // YAML 1.2.2, section 9.2: `---` starts a new document of the stream.
+    name: 'two YAML documents: the `---` line is named',
+    text: `${SPRING}---\nformat: 1\n`,
+    line: SPRING.split('\n').length, words: ['the file holds 2 YAML documents', 'a model file is one document', `remove the \`---\` line at line ${SPRING.split('\n').length}`],
+  },
+  {
+    name: 'three YAML documents, the first with its own `---`',
+    text: `---\n${SPRING}---\nb: 2\n---\nc: 3\n`,
+    line: SPRING.split('\n').length + 1, words: ['the file holds 3 YAML documents', `remove the \`---\` line at line ${SPRING.split('\n').length + 1}`],
+  },
+  {
+    // YAML 1.2.2, section 9.1.2: `...` ends a document; whatever follows is another one.
+    name: 'a document after `...`',
+    text: `${SPRING}...\nb: 2\n`,
+    line: SPRING.split('\n').length + 1, words: ['the file holds 2 YAML documents', 'remove the `...` line'],
+  },
+  {
     name: 'duplicate key',
     text: spring('  m: { fixed: 2.5, unit: kg }', '  m: { fixed: 2.5, unit: kg }\n  m: 3'),
     line: 10, words: ['appears twice'],
@@ -369,6 +386,18 @@ const cases: Case[] = [
     name: 'sigma must be above 0',
     text: spring('column: position }', 'column: position, sigma: 0 }'),
     key: 'outputs.pos.sigma', line: 17, words: ['sigma of pos must be above 0'],
+  },
+  {
+    // IEEE 754 binary64: the smallest normal double is 2^-1022, so a sigma of 1e-200 has a square of 0.
+    name: 'sigma whose square underflows',
+    text: spring('column: position }', 'column: position, sigma: 1e-200 }'),
+    key: 'outputs.pos.sigma', line: 17, words: ['sigma of pos is 1e-200', 'not a normal double', '1.5e-154 to 1.3e+154'],
+  },
+  {
+    // IEEE 754 binary64: the largest double is about 1.8e308, so a sigma of 1e160 has an infinite square.
+    name: 'sigma whose square overflows',
+    text: spring('column: position }', 'column: position, sigma: 1e160 }'),
+    key: 'outputs.pos.sigma', line: 17, words: ['sigma of pos is 1e+160', 'not a normal double'],
   },
   {
     name: 'window in reverse order',

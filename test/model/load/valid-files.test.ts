@@ -193,6 +193,13 @@ outputs:
     expect(bare.unitCheck).toBe('no-units');
     expect(bare.isStatic).toBe(true);
   });
+
+  it('a sigma whose square is a normal double is kept, however small or large (IEEE 754 binary64)', () => {
+    for (const sigma of [1e-150, 2e-154, 1e150]) {
+      const m = loadText(`format: 1\nname: tiny\nparameters:\n  a: { free: [0, 1] }\ninputs:\n  u: {}\noutputs:\n  y: { expr: a*u, sigma: ${sigma} }\n`);
+      expect(m.outputs[0].sigma).toBe(sigma);
+    }
+  });
 });
 
 describe('defaults of inputs, outputs and experiments', () => {
