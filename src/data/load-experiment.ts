@@ -16,7 +16,8 @@ import { logPlan } from './column-plan.js';
 import { readCsv } from './csv-table.js';
 import { matchHeader, type HeaderLayout } from './log-header.js';
 import { RowCollector } from './log-rows.js';
-import type { ExperimentData } from './types.js';
+import { grossOutliers } from './gross-outliers.js';
+import type { ExperimentData, GrossOutlier } from './types.js';
 
 /** The path as the user best recognises it: relative to the working directory when shorter. */
 function shownPath(file: string): string {
@@ -42,6 +43,10 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
   const lines = rows.lines.toArray();
   if (!model.isStatic) checkTimeIncreases(rawTime, lines, exp, shown);
   const start = model.isStatic ? rawTime[0] : integrationStart(exp, expKey, rawTime[0], lines[0]);
+  const inputs = rows.inputs.map((c) => c.toArray());
+  refuseGrossInputs(model, inputs, lines, shown);
+  const outputs = plan.outputs.map((p, j) => (p.index >= 0 ? rows.outputs[j].toArray() : null));
+  const outliers = excludeGrossOutputs(model, outputs, rows.missing, lines);
   const f = plan.timeFactor;
   return {
     experiment: exp,
@@ -50,11 +55,38 @@ export function loadExperimentData(model: Model, index: number): ExperimentData 
     time: f === 1 ? rawTime : rawTime.map((t) => t * f),
     timeToColumnUnit: 1 / f,
     start: start * f,
-    inputs: rows.inputs.map((c) => c.toArray()),
-    outputs: plan.outputs.map((p, j) => (p.index >= 0 ? rows.outputs[j].toArray() : null)),
+    inputs,
+    outputs,
     missing: rows.missing,
     lines,
+    outliers,
   };
+}
+
+/** An input drives the simulation: a gross error in it is refused with its line (never guessed around). */
+function refuseGrossInputs(model: Model, inputs: Float64Array[], lines: Int32Array, shown: string): void {
+  const problems = model.inputs.flatMap((inp, j) =>
+    grossOutliers(inputs[j], !model.isStatic).slice(0, 3).map((i) => ({
+      where: { file: shown, line: lines[i] },
+      what: `input ${inp.name} has ${inputs[j][i]}${inp.unit ? ` ${inp.unit}` : ''} here, a gross error: far outside the rest of the column${model.isStatic ? '' : ' and apart from its neighbours'} (a logger's over-range marker, or a wild cell?)`,
+      fix: 'repair or remove the row, or leave it out with the experiment\'s window',
+    })),
+  );
+  if (problems.length) throw new UserError(problems);
+}
+
+/** Gross errors in outputs become missing samples, kept for the warnings that name their lines. */
+function excludeGrossOutputs(model: Model, outputs: (Float64Array | null)[], missing: number[], lines: Int32Array): GrossOutlier[] {
+  const found: GrossOutlier[] = [];
+  outputs.forEach((values, j) => {
+    if (!values) return;
+    for (const i of grossOutliers(values, !model.isStatic)) {
+      found.push({ output: model.outputs[j].name, line: lines[i], value: values[i], unit: model.outputs[j].unit });
+      values[i] = NaN;
+      missing[j]++;
+    }
+  });
+  return found.sort((a, b) => a.line - b.line);
 }
 
 function emptyLog(exp: ExperimentSpec, expKey: string, shown: string, rows: RowCollector): UserError {

@@ -21,4 +21,18 @@ export interface ExperimentData {
   missing: number[];
   /** 1-based line number in the file of each kept row, for messages. */
   lines: Int32Array;
+  /**
+   * Output samples excluded as gross errors (gross-outliers.ts), in file order: they are NaN in
+   * `outputs` and counted in `missing`, and the fit and `check` name them.
+   */
+  outliers: GrossOutlier[];
+}
+
+export interface GrossOutlier {
+  output: string;
+  /** 1-based line in the file. */
+  line: number;
+  /** The value as logged, converted into the output's unit. */
+  value: number;
+  unit: string;
 }

@@ -4,6 +4,7 @@
  * samples). Plain text, fixed-width columns; every number carries its unit. Text from the model or
  * the log is made printable (presentation/printable.ts).
  */
+import { outlierWarnings } from '../presentation/outlier-notes.js';
 import type { ExperimentData } from '../data/types.js';
 import type { Model, ParameterSpec } from '../model/types.js';
 import { formatNumber, indentedTable, printable, printableLines, withUnit } from '../presentation/index.js';
@@ -152,5 +153,6 @@ export function fitReadinessNotes(model: Model, data: (ExperimentData | undefine
       if (logged && m > 0 && m === logged.length) notes.push(`experiment ${model.experiments[k].name}: output ${model.outputs[j].name} has no sample at all (all ${m} missing)`);
     });
   });
+  notes.push(...outlierWarnings(data.filter((d): d is ExperimentData => d !== undefined)));
   return notes.map(printable);
 }

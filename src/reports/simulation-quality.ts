@@ -1,7 +1,7 @@
 /** The fit quality that `rigcal simulate` prints where an experiment has data (a table, or rows for --json). */
 import { scoreSeries } from '../diagnostics/scores.js';
 import type { Model } from '../model/types.js';
-import { constantOutputWarning, formatNumber, indentedTable as plainTable, withUnit } from '../presentation/index.js';
+import { constantOutputWarning, formatNumber, indentedTable as plainTable, printableLines, withUnit } from '../presentation/index.js';
 import type { SimulatedExperiment } from './simulation-csv.js';
 
 /** One experiment's measured output against the simulation: RMSE in the output's unit. */
@@ -43,5 +43,5 @@ export function renderQuality(model: Model, runs: readonly SimulatedExperiment[]
   if (!quality.length) return '';
   const rows = quality.map((r) => [r.experiment, r.role, r.output, String(r.samples), String(r.missing), withUnit(r.rmse, r.unit), formatNumber(r.r2, 5)]);
   const warnings = quality.filter((r) => r.constantValue !== undefined).map((r) => `warning: ${constantOutputWarning(r.output, r.experiment, withUnit(r.constantValue, r.unit))}\n`);
-  return `fit quality (measured - simulated)\n${plainTable(['experiment', 'role', 'output', 'samples', 'missing', 'RMSE', 'R^2'], rows)}\n${warnings.join('')}`;
+  return printableLines(`fit quality (measured - simulated)\n${plainTable(['experiment', 'role', 'output', 'samples', 'missing', 'RMSE', 'R^2'], rows)}\n${warnings.join('')}`);
 }

@@ -174,6 +174,7 @@ export function handData(compiled: CompiledModel, time: ArrayLike<number>, input
     outputs: compiled.model.outputs.map(() => null),
     missing: compiled.model.outputs.map(() => 0),
     lines: Int32Array.from(t, (_v, i) => i + 2),
+    outliers: [],
   };
 }
 

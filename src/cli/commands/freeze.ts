@@ -1,6 +1,7 @@
 /** The `freeze` command: hand calibrated parameters to a simulation team. */
 import { Option, type Command } from 'commander';
 import { UserError } from '../../errors.js';
+import { printableLines } from '../../presentation/printable.js';
 import type { FreezeFormat, FreezeOutcome } from '../../verbs/freeze.js';
 import type { CommandContext } from '../io.js';
 import { isStandardOutput, mannerOptions } from '../options.js';
@@ -52,12 +53,12 @@ experiment's \`set\`; relative data paths are rewritten so that they stay valid 
           // Standard output carries the frozen file alone; what was done goes to standard error.
           const { text, outcome } = prepareFreeze(options);
           ctx.io.stdout(text);
-          ctx.io.stderr(`${freezeNotes(outcome, 'standard output', model).join('\n')}\n`);
+          ctx.io.stderr(printableLines(`${freezeNotes(outcome, 'standard output', model).join('\n')}\n`));
           return 0;
         }
         const outcome = runFreeze({ ...options, output: opts.output });
         if (opts.json) ctx.io.stdout(toJson({ ...outcome, output: opts.output, path: outcome.output }));
-        else ctx.io.stdout(`${freezeNotes(outcome, opts.output, model).join('\n')}\n`);
+        else ctx.io.stdout(printableLines(`${freezeNotes(outcome, opts.output, model).join('\n')}\n`));
         return 0;
       }),
     );

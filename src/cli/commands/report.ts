@@ -1,5 +1,6 @@
 /** `rigcal report DIR`: rebuild report.html in a results folder of `fit` from its fit.json and residuals.csv. */
 import type { Command } from 'commander';
+import { printable } from '../../presentation/printable.js';
 import { formatDuration, formatFileSize } from '../../presentation/numbers.js';
 import type { CommandContext } from '../io.js';
 import { mannerOptions } from '../options.js';
@@ -22,7 +23,7 @@ export function register(program: Command, ctx: CommandContext): void {
       const [{ runReport }, { toJson }] = await Promise.all([import('../../verbs/report.js'), import('../../files/json.js')]); // loaded when the command runs
       const written = await runReport({ folder: dirArg, cwd: ctx.io.cwd });
       if (opts.json) ctx.io.stdout(toJson(written));
-      else ctx.io.stdout(`wrote ${written.file} (${formatFileSize(written.bytes)} in ${formatDuration(written.seconds)})\n`);
+      else ctx.io.stdout(`wrote ${printable(written.file)} (${formatFileSize(written.bytes)} in ${formatDuration(written.seconds)})\n`);
       return 0;
     }));
 }

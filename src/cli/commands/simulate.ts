@@ -5,6 +5,7 @@
  * src/verbs/simulate.ts).
  */
 import type { Command } from 'commander';
+import { printable } from '../../presentation/printable.js';
 import { UserError } from '../../errors.js';
 import type { CommandContext } from '../io.js';
 import { isStandardOutput, mannerOptions } from '../options.js';
@@ -72,7 +73,7 @@ export function register(program: Command, ctx: CommandContext): void {
         duration: options.duration,
         interval: options.interval,
         inputs: options.input ?? [],
-        onNote: (note) => io.stderr(`rigcal: note: ${note}\n`),
+        onNote: (note) => io.stderr(`rigcal: note: ${printable(note)}\n`),
       });
       if (options.json) {
         const { toJson } = await import('../../files/json.js');
@@ -81,7 +82,7 @@ export function register(program: Command, ctx: CommandContext): void {
       }
       const table = quality.renderQuality(result.model, result.runs);
       if (toFile) {
-        io.stdout(`wrote ${options.output} (${result.rows} rows)\n`);
+        io.stdout(`wrote ${printable(options.output!)} (${result.rows} rows)\n`);
         if (table) io.stdout(table);
       } else {
         // Standard output carries the CSV and nothing else.

@@ -6,6 +6,7 @@
 import type { ExperimentData } from '../../data/types.js';
 import type { CompiledModel } from '../../model/compiled-types.js';
 import type { Model } from '../../model/types.js';
+import { outlierWarnings } from '../../presentation/outlier-notes.js';
 import { MAX_SIGMA_ROUNDS, SIGMA_TOLERANCE } from '../noise.js';
 import { assembleResult } from './assemble-result.js';
 import type { FitCollaborators } from './collaborators.js';
@@ -39,6 +40,7 @@ export function fitOnce(model: Model, compiled: CompiledModel, data: readonly Ex
   const hint = localOptimumHint(solved.starts !== undefined, estimates.parameters, scored.outputs);
   const validationWarnings = scoreValidationExperiments(setup, estimates.values, scored);
   const warnings = [
+    ...outlierWarnings(data),
     ...solvingWarnings,
     ...estimates.warnings,
     ...statisticsWarnings,

@@ -69,6 +69,7 @@ export function decayData(model: Model, index: number, time: number[], y: number
     outputs: [Float64Array.from(y)],
     missing: [y.filter((v) => Number.isNaN(v)).length],
     lines: Int32Array.from(time.map((_, i) => i + 2)),
+    outliers: [],
   };
 }
 
