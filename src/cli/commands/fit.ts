@@ -6,8 +6,7 @@
  */
 import type { Command } from 'commander';
 import { integerOption, mannerOptions } from '../options.js';
-import type { FitProgress } from '../../estimation/fit/fit-options.js';
-import { formatNumber } from '../../presentation/numbers.js';
+import { progressDisplay } from '../progress.js';
 import type { CommandContext } from '../io.js';
 
 interface FitCliOptions {
@@ -56,17 +55,9 @@ export function register(program: Command, ctx: CommandContext): void {
         const seed = integerOption(opts.seed, '--seed');
         const maxIterations = integerOption(opts.maxIterations, '--max-iterations');
         const overrides = parseOverrides(opts.set ?? []);
-        const showProgress = io.stderrIsTTY; // false with --quiet (runCli)
-        let lastLine = 0;
-        const onProgress = showProgress
-          ? (p: FitProgress) => {
-              const line = `${p.message ?? `start ${p.start}`}  iteration ${p.iteration}  cost ${formatNumber(p.cost, 6)}  step ${formatNumber(p.step, 2)}`;
-              io.stderr(`\r${line.padEnd(lastLine)}`);
-              lastLine = line.length;
-            }
-          : undefined;
-        const { outcome, folder } = await runFit({ modelFile, cwd: io.cwd, output: opts.output, overrides, starts, seed, maxIterations, onProgress });
-        if (showProgress && lastLine) io.stderr('\n');
+        const progress = progressDisplay(io);
+        const { outcome, folder } = await runFit({ modelFile, cwd: io.cwd, output: opts.output, overrides, starts, seed, maxIterations, onProgress: progress.onProgress });
+        progress.finish();
         if (opts.json) io.stdout(renderFitJson(outcome.result));
         else io.stdout(renderFitSummary(outcome.result, folder));
         // 3: estimates exist but are not a converged optimum (a script must be able to tell).

@@ -1,7 +1,11 @@
 /** What the caller of a fit chooses, and the progress it is told about. */
 
 export interface FitProgress {
+  /** What the fit is doing: the fit from the start(s), a refit with estimated noise levels, or the search of starts that a fit stuck on its bounds runs by itself. */
+  phase: 'fit' | 'noise refit' | 'search of starts';
+  /** 1-based start, of `starts` in this phase. */
   start: number;
+  starts: number;
   iteration: number;
   /** The solver's cost: the weighted sum of squared residuals (not half of it). */
   cost: number;

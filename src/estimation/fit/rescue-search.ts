@@ -29,7 +29,9 @@ export function fitWithRescue(model: Model, compiled: CompiledModel, data: reado
   if (!first.ok) return first;
   if (options.starts !== undefined || first.localOptimum === undefined) return first.fit;
   const seed = options.seed ?? RESCUE_SEED;
-  const spread = fitOnce(model, compiled, data, { ...options, starts: RESCUE_STARTS, seed }, collaborators);
+  const tell = options.onProgress;
+  const onProgress = tell ? (p: Parameters<typeof tell>[0]) => tell({ ...p, phase: p.phase === 'fit' ? 'search of starts' : p.phase }) : undefined;
+  const spread = fitOnce(model, compiled, data, { ...options, starts: RESCUE_STARTS, seed, onProgress }, collaborators);
   // Every spread start failed to simulate: the fit from the model's start stands, with its warning.
   if (!spread.ok) return first.fit;
   return betterOfBoth(first.fit, spread.fit, first.localOptimum, seed);

@@ -18,6 +18,11 @@ interface WarmStart {
 
 type SolveFrom = (start: readonly number[], startIndex: number, message?: string, initial?: WarmStart) => SolverResult;
 
+/** Starts of the fit's first phase: the model's own, or --starts N. */
+function startsOf(setup: FitSetup): number {
+  return Math.max(1, Math.floor(setup.options.starts ?? 1));
+}
+
 export interface SolvedFit {
   ok: true;
   /** The solver run whose point is reported. */
@@ -61,7 +66,7 @@ function solverFor(setup: FitSetup): SolveFrom {
       ...solver.settings,
       ...(initial ? { initial: initial.evaluation, costNoise: initial.costNoise } : {}),
       onIteration: options.onProgress
-        ? (p) => options.onProgress!({ start: startIndex, iteration: p.iteration, cost: p.cost, step: p.step, ...(message ? { message } : {}) })
+        ? (p) => options.onProgress!({ phase: message ? 'noise refit' : 'fit', start: startIndex, starts: message ? 1 : startsOf(setup), iteration: p.iteration, cost: p.cost, step: p.step, ...(message ? { message } : {}) })
         : undefined,
     });
 }
@@ -77,7 +82,7 @@ interface StartsDone {
 function runStarts(setup: FitSetup, solveFrom: SolveFrom): StartsDone | StartFailed {
   const { problem, options } = setup;
   const startTheta = problem.startTheta();
-  const requested = Math.max(1, Math.floor(options.starts ?? 1));
+  const requested = startsOf(setup);
   if (requested === 1) {
     const best = solveFrom(startTheta, 1);
     if (best.status === 'failed') return { ok: false, failure: startFailure(problem, best) };
