@@ -14,8 +14,7 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { integrateRk4 } from './helpers/reference-rk4.js';
-import { cli, grid, normal, removeTempDirs, tempDir } from './helpers/rig-kit.js';
+import { cli, normal, removeTempDirs, springStepResponse, tempDir } from './helpers/rig-kit.js';
 
 afterAll(removeTempDirs);
 
@@ -66,15 +65,10 @@ experiments:
 
 /** A log of the spring (k = 20 N/m, c = 1 N*s/m) by the reference RK4, with the given header. */
 function log(forceColumn = 'force', posColumn = 'pos'): string {
-  const t = grid(201, 0.02);
-  const F = Float64Array.from(t, (s) => (s >= 0.5 ? 1 : 0));
-  const x = integrateRk4((_t, s, u, d) => {
-    d[0] = s[1];
-    d[1] = u[0] - 20 * s[0] - 1 * s[1];
-  }, [0, 0], 0, t, [{ times: t, values: F, kind: 'linear' }], 1e-3);
+  const { t, force, position } = springStepResponse();
   const e = normal(11);
   const rows = [`t,${forceColumn},${posColumn}`];
-  for (let i = 0; i < t.length; i++) rows.push(`${t[i].toFixed(2)},${F[i]},${(x[i][0] + 5e-5 * e()).toFixed(7)}`);
+  for (let i = 0; i < t.length; i++) rows.push(`${t[i].toFixed(2)},${force[i]},${(position[i] + 5e-5 * e()).toFixed(7)}`);
   return `${rows.join('\n')}\n`;
 }
 

@@ -7,7 +7,7 @@
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse } from 'yaml';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { grossOutliers } from '../../src/data/gross-outliers.js';
 import { normalDeviates } from '../../src/util/random.js';
 import { rigcal, scratchDir } from '../cli/run-cli.js';
@@ -56,6 +56,7 @@ describe('grossOutliers', () => {
 
 describe('a log with gross errors, through the CLI', () => {
   const { dir, cleanup } = scratchDir('gross');
+  afterAll(cleanup);
   const model = writeThermalRig(dir, 11, { sigmaLine: ', sigma: 0.05' });
   const clean = readFileSync(join(dir, 'warm.csv'), 'utf8');
   const withCell = (line: number, column: number, value: string) => {
@@ -97,6 +98,5 @@ describe('a log with gross errors, through the CLI', () => {
     expect(run.code).toBe(2);
     expect(run.stderr).toMatch(/warm\.csv:60.*input P has 9\.9e\+37 W here, a gross error/);
     writeFileSync(join(dir, 'warm.csv'), clean);
-    cleanup;
   });
 });

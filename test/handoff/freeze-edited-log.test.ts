@@ -3,43 +3,27 @@
  * state a hash the data no longer have; with --force the frozen file's comments state both.
  * Common practice, no source: a changed SHA-256 of a file means other bytes. Hashes from node:crypto.
  */
-import { createHash } from 'node:crypto';
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { runCli } from '../../src/cli/run.js';
-import { fitModel } from '../../src/estimation/fit/fit-model.js';
-import { loadModel } from '../../src/model/load/index.js';
-import { writeResults } from '../../src/reports/write-results.js';
-import { modelText, writeRigData } from '../comparison/synthetic-rig.js';
-
-async function cli(args: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const code = await runCli(args, { stdout: (s) => (out += s), stderr: (s) => (err += s), stderrIsTTY: false, cwd });
-  return { code, out, err };
-}
-
-const sha = (file: string) => createHash('sha256').update(readFileSync(file)).digest('hex');
+import { cli, fittedRig, sha256Of } from './fitted-rig.js';
 
 describe('freeze with a fit log edited after the fit', () => {
   let dir: string;
   let before: string;
   let after: string;
 
-  beforeAll(() => {
-    dir = writeRigData();
-    writeFileSync(path.join(dir, 'rig.yaml'), modelText({}));
-    writeResults(path.join(dir, 'fit'), fitModel(loadModel(path.join(dir, 'rig.yaml'))), { outputs: ['x'] });
+  beforeAll(async () => {
+    dir = await fittedRig();
     const log = path.join(dir, 'shake.csv');
-    before = sha(log);
+    before = sha256Of(log);
     // One measured value changed by hand (the second data row, last column).
     const lines = readFileSync(log, 'utf8').split('\n');
     const cells = lines[2].split(',');
     cells[cells.length - 1] = String(Number(cells[cells.length - 1]) + 0.001);
     lines[2] = cells.join(',');
     writeFileSync(log, lines.join('\n'));
-    after = sha(log);
+    after = sha256Of(log);
   });
 
   it('refuses it, naming the experiment, the file and both hashes, and writes nothing', async () => {
@@ -59,6 +43,6 @@ describe('freeze with a fit log edited after the fit', () => {
     const text = readFileSync(path.join(dir, 'calibrated.yaml'), 'utf8');
     expect(text).toContain(`shake (fit): shake.csv, sha256 ${before} when fitted; CHANGED since: the file now has sha256 ${after} (frozen anyway with --force)`);
     // The untouched logs keep their one hash.
-    expect(text).toContain(`bump (fit): bump.csv, sha256 ${sha(path.join(dir, 'bump.csv'))}\n`);
+    expect(text).toContain(`bump (fit): bump.csv, sha256 ${sha256Of(path.join(dir, 'bump.csv'))}\n`);
   });
 });

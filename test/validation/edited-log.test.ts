@@ -4,45 +4,29 @@
  * and refuses, naming the experiment, the file, both hashes and the fix; --force accepts it and
  * validation.json records both hashes. Hashes checked against node:crypto's SHA-256 of the bytes.
  */
-import { createHash } from 'node:crypto';
 import { appendFileSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { cli, fittedRig, sha256Of } from '../handoff/fitted-rig.js';
 import { parse } from 'yaml';
-import { runCli } from '../../src/cli/run.js';
-import { fitModel } from '../../src/estimation/fit/fit-model.js';
-import { loadModel } from '../../src/model/load/index.js';
-import { writeResults } from '../../src/reports/write-results.js';
 import type { ValidationResult } from '../../src/validation/validation-result.js';
-import { modelText, writeRigData } from '../comparison/synthetic-rig.js';
-
-async function cli(args: string[], cwd: string): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const code = await runCli(args, { stdout: (s) => (out += s), stderr: (s) => (err += s), stderrIsTTY: false, cwd });
-  return { code, out, err };
-}
-
-const sha = (file: string) => createHash('sha256').update(readFileSync(file)).digest('hex');
 
 describe('validate with a log edited after the fit', () => {
   let dir: string;
   let before: string;
   let after: string;
 
-  beforeAll(() => {
-    dir = writeRigData();
-    writeFileSync(path.join(dir, 'rig.yaml'), modelText({}));
-    writeResults(path.join(dir, 'fit'), fitModel(loadModel(path.join(dir, 'rig.yaml'))), { outputs: ['x'] });
+  beforeAll(async () => {
+    dir = await fittedRig();
     const log = path.join(dir, 'held-out.csv');
-    before = sha(log);
+    before = sha256Of(log);
     const recorded = (parse(readFileSync(path.join(dir, 'fit', 'estimates.yaml'), 'utf8')).data as { experiment: string; sha256: string }[]).find((d) => d.experiment === 'held-out');
     expect(recorded?.sha256).toBe(before);
     // One more sample at the end: a log someone extended after the fit.
     const lines = readFileSync(log, 'utf8').trimEnd().split('\n');
     const last = lines[lines.length - 1].split(',');
     appendFileSync(log, `${Number(last[0]) + 0.01},${last.slice(1).join(',')}\n`);
-    after = sha(log);
+    after = sha256Of(log);
   });
 
   it('refuses it with exit 2, naming the experiment, the file, both hashes and --force', async () => {

@@ -10,6 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { runCli } from '../../../src/cli/run.js';
 import { mulberry32, normalDeviates } from '../../../src/util/random.js';
+import { integrateRk4 } from './reference-rk4.js';
 
 /** The project's seeded uniform generator (mulberry32). */
 export const uniform = mulberry32;
@@ -124,4 +125,18 @@ export interface FitJson {
 /** Every number anywhere in a JSON text is finite (JSON has no NaN; a NaN written by JSON.stringify becomes null, and text "NaN" would not parse). */
 export function hasNoNaN(text: string): boolean {
   return !/\bNaN\b|\bInfinity\b/.test(text);
+}
+
+/**
+ * The spring of the hostile-input cases (m = 1 kg, k = 20 N/m, c = 1 N*s/m) under a 1 N force step at
+ * t = 0.5 s, 201 samples 0.02 s apart, by the reference RK4: the time, the force and the position in m.
+ */
+export function springStepResponse(): { t: Float64Array; force: Float64Array; position: Float64Array } {
+  const t = grid(201, 0.02);
+  const force = Float64Array.from(t, (s) => (s >= 0.5 ? 1 : 0));
+  const x = integrateRk4((_t, s, u, d) => {
+    d[0] = s[1];
+    d[1] = u[0] - 20 * s[0] - 1 * s[1];
+  }, [0, 0], 0, t, [{ times: t, values: force, kind: 'linear' }], 1e-3);
+  return { t, force, position: Float64Array.from(x, (row) => row[0]) };
 }
